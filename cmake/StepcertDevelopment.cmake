@@ -1,0 +1,22 @@
+# Settings shared by the project's own tests, examples and benchmarks (not exported).
+find_package(nlohmann_json 3 REQUIRED CONFIG)
+find_package(Eigen3 3.3 REQUIRED CONFIG)
+find_package(benchmark REQUIRED)
+find_package(GTest REQUIRED)
+find_path(STEPCERT_MPFR_INCLUDE mpfr.h)
+find_library(STEPCERT_MPFR_LIB mpfr)
+find_library(STEPCERT_GMP_LIB gmp)
+
+# stepcert_dev: warnings, sanitizers and the optional multiprecision back ends.
+add_library(stepcert_dev INTERFACE)
+target_link_libraries(stepcert_dev INTERFACE stepcert::stepcert nlohmann_json::nlohmann_json Eigen3::Eigen quadmath)
+target_compile_options(stepcert_dev INTERFACE -Wall -Wextra -Wpedantic
+    $<$<BOOL:${STEPCERT_WARNINGS_AS_ERRORS}>:-Werror>)
+if(STEPCERT_MPFR_INCLUDE AND STEPCERT_MPFR_LIB AND STEPCERT_GMP_LIB)
+    target_compile_definitions(stepcert_dev INTERFACE STEPCERT_HAVE_MPFR=1)
+    target_link_libraries(stepcert_dev INTERFACE ${STEPCERT_MPFR_LIB} ${STEPCERT_GMP_LIB})
+endif()
+if(STEPCERT_SANITIZE)
+    target_compile_options(stepcert_dev INTERFACE -fsanitize=${STEPCERT_SANITIZE} -fno-omit-frame-pointer -fno-sanitize-recover=all)
+    target_link_options(stepcert_dev INTERFACE -fsanitize=${STEPCERT_SANITIZE})
+endif()
