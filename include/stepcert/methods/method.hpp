@@ -65,4 +65,15 @@ concept adaptive_method = method_description<M> && (M::control == step_control::
 template <class M>
 concept method = fixed_step_method<M> || adaptive_method<M>;
 
+/// True for methods that work only on separable problems (problem.as_separable()); such a
+/// method declares `static constexpr bool requires_separable = true;`. run_uniform checks it.
+template <class M>
+inline constexpr bool requires_separable_v = requires { requires M::requires_separable; };
+
+/// True for methods without one fixed order (Bulirsch–Stoer changes its extrapolation order
+/// step by step); such a method declares `static constexpr bool variable_order = true;` and its
+/// order() returns 0. Studies must not compare a fitted order with it.
+template <class M>
+inline constexpr bool has_variable_order_v = requires { requires M::variable_order; };
+
 } // namespace stepcert

@@ -4,11 +4,14 @@
 #include <cstddef>
 #include <string_view>
 
+#include "stepcert/methods/detail/uniform_loop.hpp"
 #include "stepcert/methods/method.hpp"
 
 namespace stepcert {
 
-/// StepperFor<State> names the odeint stepper for a given state type.
+/// StepperFor<State> names the odeint stepper for a given state type (see odeint_types.hpp;
+/// any alias with one state parameter works, e.g. one that picks another odeint algebra).
+/// The right-hand-side evaluations per step are the stepper's stage count; the run driver counts them.
 template <template <class State> class StepperFor>
 struct odeint_fixed_step {
     static constexpr step_control control = step_control::fixed;
@@ -20,13 +23,10 @@ struct odeint_fixed_step {
 
     template <class Rhs, class S, class T, class Obs>
     void integrate_uniform(Rhs rhs, S& y, T t0, T h, std::size_t n, std::size_t stride, Obs obs) const {
+        detail::check_uniform_arguments(label, h, n, stride);
         StepperFor<S> stepper;
-        obs(y, t0);
-        for (std::size_t k = 1; k <= n; ++k) {
-            // t from the step index, not by accumulation, so no drift over long runs.
-            stepper.do_step(rhs, y, t0 + static_cast<T>(k - 1) * h, h);
-            if (k % stride == 0) obs(static_cast<const S&>(y), t0 + static_cast<T>(k) * h);
-        }
+        detail::uniform_loop([&](S& x, const T& t, const T& dt) { stepper.do_step(rhs, x, t, dt); }, y, t0, h, n,
+                             stride, obs);
     }
 };
 

@@ -1,0 +1,88 @@
+#pragma once
+// Generic adaptive method over an odeint controlled stepper (try_step). The loop is odeint's
+// integrate_times for controlled steppers: a step that would pass an output time is cut to end
+// on it, and after the cut the previous step size is resumed; otherwise the controller's
+// proposal is taken as is (odeint's integrate_times keeps the larger of the old and the proposed
+// step, which makes Bulirsch–Stoer, whose proposals may shrink, reject far more steps). Differences, all on purpose:
+// f(t, y) is evaluated once per accepted point and reused by rejected attempts (odeint
+// re-evaluates it), accepted and rejected steps are counted, every loop is bounded (step-size
+// guard, plus the driver's evaluation budget), and a NaN state stops the run with a message.
+#include <algorithm>
+#include <cstddef>
+#include <string_view>
+#include <vector>
+
+#include <boost/numeric/odeint/stepper/controlled_step_result.hpp>
+
+#include "stepcert/methods/detail/adaptive_support.hpp"
+#include "stepcert/methods/method.hpp"
+
+namespace stepcert {
+
+/// Policy: `template <class S> static auto make(const controller_tolerance&)` builds the odeint
+/// controlled stepper for state S; `starting_order` feeds the starting-step rule;
+/// `variable_order` is true when the method has no single order.
+template <class Policy>
+struct odeint_controlled {
+    static constexpr step_control control = step_control::adaptive;
+    static constexpr bool variable_order = Policy::variable_order;
+    std::string_view label;
+    int declared_order;
+    double initial_step = 0.0;  ///< first trial step; 0 = automatic (Hairer–Nørsett–Wanner rule)
+
+    std::string_view name() const { return label; }
+    int order() const { return declared_order; }
+
+    /// A copy with a fixed first trial step (to reproduce a run of odeint's own integrate functions).
+    odeint_controlled with_initial_step(double h) const {
+        odeint_controlled m = *this;
+        m.initial_step = h;
+        return m;
+    }
+
+    template <class Rhs, class S, class T, class Obs>
+    void integrate_adaptive(Rhs rhs, S& y, T t0, const std::vector<T>& times, controller_tolerance tol, Obs obs,
+                            run_stats& stats) const {
+        using std::max;
+        using std::min;
+        namespace odeint = boost::numeric::odeint;
+        detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
+        auto stepper = Policy::template make<S>(tol);
+        const T t_end = times.back();
+        const T resolution = detail::time_resolution(t0, t_end);
+        S dxdt = state_traits<S>::make(state_size(y));
+        rhs(static_cast<const S&>(y), dxdt, t0);
+        detail::require_finite_derivative(label, dxdt, t0);
+        T dt = initial_step > 0.0 ? min(static_cast<T>(initial_step), t_end - t0)
+                                  : detail::starting_step(rhs, y, dxdt, t0, t_end - t0, Policy::starting_order, tol);
+        bool dxdt_current = true;
+        T t = t0;
+        obs(static_cast<const S&>(y), t0);
+        for (const T& target : times) {
+            while (target - t > resolution) {
+                T try_dt = min(dt, target - t);
+                const bool lands = !(try_dt < target - t);
+                const T t_before = t;
+                if (!dxdt_current) rhs(static_cast<const S&>(y), dxdt, t);
+                dxdt_current = true;
+                if (stepper.try_step(rhs, y, dxdt, t, try_dt) == odeint::success) {
+                    ++stats.steps;
+                    dxdt_current = false;
+                    if (lands) t = target;
+                    detail::require_finite_step(label, y, t_before, t);
+                    // The controller's proposal, except that a step cut short by an output time
+                    // resumes the step size it had before (as odeint's integrate_times does).
+                    dt = lands ? max(dt, try_dt) : try_dt;
+                } else {
+                    ++stats.rejected;
+                    dt = try_dt;
+                    detail::guard_step_size(label, dt, t, resolution);
+                }
+            }
+            t = target;
+            obs(static_cast<const S&>(y), target);
+        }
+    }
+};
+
+} // namespace stepcert
