@@ -1,0 +1,372 @@
+#pragma once
+// order_study(problem, method, ladder, options): runs the method on every level of a ladder,
+// measures the global error on an output grid common to all levels, finds the asymptotic
+// range (study/asymptotic_range.hpp) and fits the observed order with a confidence interval.
+//
+// Error basis (options.basis, `automatic` takes the first that applies):
+//  1. the problem's exact solution, evaluated in exact_evaluation_real (50 digits) when it is
+//     generic in the scalar type, else in the problem's own scalar type;
+//  2. a multiprecision reference_solution at the grid times (when the reference module is present);
+//  3. no reference: differences of successive levels, Richardson's observed order.
+// Round-off floor of a level with N steps: round_off_factor * sqrt(N) * eps * |y| in the norm's
+// units (statistical accumulation of rounding errors; common practice, no source), plus the
+// reference's own uncertainty |y| * 10^-digits. Measured with classic RK4 on Kepler e = 0.5, the
+// plateau sits 5-60x above sqrt(N) eps |y|, while N eps |y| would already discard levels on the
+// clean slope, so the floor is a backstop and the plateau is mostly detected by its local orders.
+#include <cmath>
+#include <cstddef>
+#include <limits>
+#include <numeric>
+#include <string>
+#include <type_traits>
+#include <utility>
+#include <vector>
+
+#include <boost/multiprecision/cpp_bin_float.hpp>
+
+#include "stepcert/core/error.hpp"
+#include "stepcert/core/norm.hpp"
+#include "stepcert/core/problem.hpp"
+#include "stepcert/methods/method.hpp"
+#include "stepcert/run/run.hpp"
+#include "stepcert/study/asymptotic_range.hpp"
+#include "stepcert/study/ladder.hpp"
+#include "stepcert/study/order_fit.hpp"
+#include "stepcert/study/richardson.hpp"
+#include "stepcert/study/study_result.hpp"
+
+#if __has_include("stepcert/reference/reference_solution.hpp")
+#include "stepcert/reference/reference_solution.hpp"
+#define STEPCERT_STUDY_HAS_REFERENCE 1
+#else
+#define STEPCERT_STUDY_HAS_REFERENCE 0
+#endif
+
+namespace stepcert {
+
+/// Real type in which a generic exact solution is evaluated.
+using exact_evaluation_real = boost::multiprecision::cpp_bin_float_50;
+
+namespace detail {
+
+/// Counts every evaluation of the wrapped right-hand side, also in runs that fail midway.
+template <class Rhs>
+struct study_counting_rhs {
+    Rhs rhs;
+    std::size_t* count;
+    template <class S, class T>
+        requires requires(const Rhs& f, const S& y, S& d, T t) { f(y, d, t); }
+    void operator()(const S& y, S& dydt, T t) const {
+        ++*count;
+        rhs(y, dydt, t);
+    }
+};
+
+template <class P>
+auto with_counted_rhs(const P& p, std::size_t* count) {
+    using R = study_counting_rhs<typename P::rhs_type>;
+    return problem<typename P::state_type, R, typename P::exact_type, typename P::jacobian_type>(
+        p.name(), R{p.rhs(), count}, p.y0(), p.t0(), p.t1(), p.exact(), p.jacobian(), p.separable());
+}
+
+/// Weighted norm of approx - ref, subtracting in the wider of the two scalar types.
+template <class A, class R>
+double scaled_difference(const weighted_norm& nrm, const A& approx, const R& ref) {
+    using TA = scalar_of<A>;
+    using TR = scalar_of<R>;
+    if constexpr (std::numeric_limits<TA>::digits >= std::numeric_limits<TR>::digits)
+        return nrm(approx, ref);
+    else
+        return nrm(convert_state<rebind_state<A, TR>>(approx), ref);
+}
+
+/// Size of a state in the norm's units: what "relative error 1" means there.
+template <class R>
+double state_scale(const weighted_norm& nrm, const R& ref) {
+    double acc = 0.0;
+    const std::size_t n = state_size(ref);
+    for (std::size_t i = 0; i < n; ++i) {
+        const double r = std::abs(static_cast<double>(ref[i]));
+        const double c = r / (nrm.atol + nrm.rtol * r);
+        acc = nrm.kind == norm_kind::max ? std::max(acc, c) : acc + c * c;
+    }
+    return nrm.kind == norm_kind::max ? acc : std::sqrt(acc / static_cast<double>(n));
+}
+
+/// Errors of one level over the grid points 1..G, against references ref(j).
+struct grid_errors {
+    double final_error = 0.0, grid_error = 0.0;  // at j = G, max over j
+    double final_scale = 0.0, grid_scale = 0.0;  // |reference| at j = G, max over j
+};
+
+template <class S, class RefAt>
+grid_errors errors_on_grid(const weighted_norm& nrm, const std::vector<S>& states, std::size_t G, RefAt&& ref_at) {
+    grid_errors g;
+    for (std::size_t j = 1; j <= G; ++j) {
+        const auto& ref = ref_at(j);
+        const double e = scaled_difference(nrm, states[j], ref);
+        const double sc = state_scale(nrm, ref);
+        // NaN never counts as small: propagate it as +inf.
+        g.grid_error = std::isnan(e) ? std::numeric_limits<double>::infinity() : std::max(g.grid_error, e);
+        g.grid_scale = std::max(g.grid_scale, sc);
+        if (j == G) {
+            g.final_error = std::isnan(e) ? std::numeric_limits<double>::infinity() : e;
+            g.final_scale = sc;
+        }
+    }
+    return g;
+}
+
+template <class P, class X>
+constexpr bool exact_accepts = P::has_exact && exact_solution_for<typename P::exact_type, rebind_state<typename P::state_type, X>>;
+
+/// Where a generic exact solution is evaluated: at least 50 digits, more if the study runs wider.
+template <class P, class Tr>
+using exact_real_for = std::conditional_t<
+    exact_accepts<P, exact_evaluation_real>,
+    std::conditional_t<(std::numeric_limits<Tr>::digits > std::numeric_limits<exact_evaluation_real>::digits) &&
+                           exact_accepts<P, Tr>,
+                       Tr, exact_evaluation_real>,
+    typename P::scalar_type>;
+
+inline double local_order_between(double h_prev, double h, double e_prev, double e) {
+    if (!std::isfinite(e_prev) || !std::isfinite(e) || !(e_prev > 0.0) || !(e > 0.0) || !(h_prev > 0.0) || !(h > 0.0) ||
+        h_prev == h)
+        return std::numeric_limits<double>::quiet_NaN();
+    return std::log(e_prev / e) / std::log(h_prev / h);
+}
+
+} // namespace detail
+
+/// Runs an order study; see the header comment. T is the scalar type the method runs in
+/// (default: the problem's). Fixed-step methods take a step_ladder, adaptive ones a tolerance_ladder.
+template <class T = void, class P, class M, class Ladder>
+order_study_result order_study(const P& p, const M& m, const Ladder& ladder, const study_options& opt = {}) {
+    static_assert(problem_like<P>, "stepcert::order_study: the first argument must be a stepcert::problem (make_problem(...)).");
+    static_assert(method<M>, "stepcert::order_study: the method must satisfy stepcert::fixed_step_method (integrate_uniform) "
+                             "or stepcert::adaptive_method (integrate_adaptive), with name(), order() and control.");
+    constexpr bool fixed = fixed_step_method<M>;
+    if constexpr (fixed)
+        static_assert(std::is_same_v<Ladder, step_ladder>,
+                      "stepcert::order_study: a fixed-step method needs a step_ladder{coarsest_steps, ratio, levels}.");
+    else
+        static_assert(std::is_same_v<Ladder, tolerance_ladder>,
+                      "stepcert::order_study: an adaptive method needs a tolerance_ladder{coarsest, ratio, levels}.");
+
+    using Tr = std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>;
+    using S = rebind_state<typename P::state_type, Tr>;
+    opt.validate();
+    ladder.validate();
+
+    const std::size_t L = ladder.levels;
+    const double t0 = static_cast<double>(p.t0()), t1 = static_cast<double>(p.t1());
+    const double length = t1 - t0;
+
+    order_study_result res;
+    res.problem = p.name();
+    res.method = std::string(m.name());
+    res.declared_order = m.order();
+    res.control = M::control;
+    res.ladder = ladder.describe();
+    res.ratio = ladder.ratio;
+    res.working_digits = std::numeric_limits<Tr>::digits10;
+    res.fit_measure = opt.fit_measure;
+    res.norm = opt.norm;
+    res.levels.resize(L);
+
+    // Output grid common to all levels.
+    std::vector<std::size_t> steps_of;
+    std::size_t G = 0;
+    std::vector<Tr> adaptive_times;
+    if constexpr (fixed) {
+        steps_of = ladder.steps();
+        G = ladder.common_divisor();
+    } else {
+        G = opt.adaptive_grid_points;
+        const Tr a = static_cast<Tr>(p.t0()), b = static_cast<Tr>(p.t1());
+        for (std::size_t j = 1; j <= G; ++j)
+            adaptive_times.push_back(j == G ? b : a + (b - a) * static_cast<Tr>(j) / static_cast<Tr>(G));
+    }
+    res.grid_points = G;
+
+    // Runs, within one evaluation budget for the whole study.
+    std::size_t spent = 0;
+    const auto counted = detail::with_counted_rhs(p, &spent);
+    std::vector<trajectory<S>> runs(L);
+    std::vector<char> ran(L, 0);
+    for (std::size_t k = 0; k < L; ++k) {
+        study_level& lv = res.levels[k];
+        lv.index = k;
+        if (spent >= opt.budget.max_evaluations)
+            throw budget_exhausted("stepcert::order_study: the evaluation budget of " + std::to_string(opt.budget.max_evaluations) +
+                                   " was used up before level " + std::to_string(k) +
+                                   "; raise study_options::budget.max_evaluations or use fewer levels.");
+        const run_options ro{opt.budget.max_evaluations - spent};
+        const std::size_t before = spent;
+        try {
+            if constexpr (fixed) {
+                lv.steps = steps_of[k];
+                lv.h = length / static_cast<double>(steps_of[k]);
+                runs[k] = run_uniform<Tr>(counted, m, steps_of[k], steps_of[k] / G, ro);
+            } else {
+                lv.tolerance = ladder.tolerance(k);
+                runs[k] = run_adaptive<Tr>(counted, m, ladder.at(k), adaptive_times, ro);
+                lv.steps = runs[k].stats.steps;
+                lv.rejected = runs[k].stats.rejected;
+                lv.h = lv.steps > 0 ? length / static_cast<double>(lv.steps) : std::numeric_limits<double>::quiet_NaN();
+            }
+            ran[k] = 1;
+        } catch (const non_finite_value&) {
+            lv.note = "the solution became NaN or infinite during the run";
+        } catch (const budget_exhausted&) {
+            throw budget_exhausted("stepcert::order_study: level " + std::to_string(k) + " exceeded the study's evaluation budget of " +
+                                   std::to_string(opt.budget.max_evaluations) + " (" + std::to_string(before) +
+                                   " already spent on coarser levels); raise study_options::budget.max_evaluations or use fewer levels.");
+        }
+        lv.evaluations = spent - before;
+    }
+    res.total_evaluations = spent;
+
+    // Errors per level against the chosen basis.
+    error_basis basis = opt.basis;
+    if (basis == error_basis::automatic) {
+        if constexpr (P::has_exact)
+            basis = error_basis::exact_solution;
+        else
+            basis = STEPCERT_STUDY_HAS_REFERENCE ? error_basis::reference_solution : error_basis::successive_differences;
+    }
+    if (basis == error_basis::exact_solution && !P::has_exact)
+        throw unsupported_operation("stepcert::order_study: error_basis::exact_solution was asked for, but problem '" + p.name() +
+                                    "' has no exact solution; attach one with .with_exact(...) or use another basis.");
+
+    const Tr eps = std::numeric_limits<Tr>::epsilon();
+    const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
+    std::vector<detail::grid_errors> errs(L);
+    double ref_rel = 0.0;  // the reference's own relative uncertainty
+
+    if (basis == error_basis::exact_solution) {
+        if constexpr (P::has_exact) {
+            using X = detail::exact_real_for<P, Tr>;
+            using SX = rebind_state<typename P::state_type, X>;
+            res.reference_digits = std::numeric_limits<X>::digits10;
+            ref_rel = std::pow(10.0, -res.reference_digits);
+            res.basis_detail = "exact solution, evaluated with " + std::to_string(std::numeric_limits<X>::digits10) +
+                               " digits at each level's output times";
+            if constexpr (std::is_same_v<X, typename P::scalar_type> && !std::is_same_v<X, exact_evaluation_real>)
+                res.basis_detail += " (the exact solution is not generic in the scalar type, so it ran in the problem's own type)";
+            SX y = state_traits<SX>::make(p.dimension());
+            for (std::size_t k = 0; k < L; ++k) {
+                if (!ran[k]) continue;
+                errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G, [&](std::size_t j) -> const SX& {
+                    p.exact()(static_cast<X>(runs[k].times[j]), y);
+                    return y;
+                });
+            }
+        }
+    } else if (basis == error_basis::reference_solution) {
+#if STEPCERT_STUDY_HAS_REFERENCE
+        std::vector<double> times;
+        for (std::size_t j = 1; j <= G; ++j) times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
+        const auto ref = reference_solution(p, digits_asked, times);
+        if (ref.states.size() != G)
+            throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
+                        " states for " + std::to_string(G) + " grid times.");
+        res.reference_digits = ref.vouched_digits;
+        res.reference_evaluations = ref.cost.evaluations;
+        res.total_evaluations += ref.cost.evaluations;
+        ref_rel = std::pow(10.0, -ref.vouched_digits);
+        res.basis_detail = "reference solution (" + std::to_string(digits_asked) + " digits asked, " +
+                           detail::short_number(ref.vouched_digits, "%.1f") + " vouched): " + ref.how;
+        for (std::size_t k = 0; k < L; ++k)
+            if (ran[k])
+                errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G, [&](std::size_t j) -> const auto& { return ref.states[j - 1]; });
+#else
+        (void)digits_asked;
+        throw unsupported_operation("stepcert::order_study: error_basis::reference_solution needs stepcert/reference/reference_solution.hpp, "
+                                    "which this installation lacks; use an exact solution or error_basis::successive_differences.");
+#endif
+    } else {
+        res.basis_detail = "no reference: the error columns hold differences |y_k - y_(k-1)| of successive levels "
+                           "(Richardson's observed order)";
+        for (std::size_t k = 1; k < L; ++k) {
+            if (!ran[k] || !ran[k - 1]) {
+                errs[k].final_error = errs[k].grid_error = std::numeric_limits<double>::infinity();
+                continue;
+            }
+            errs[k] = detail::errors_on_grid(opt.norm, runs[k - 1].states, G, [&](std::size_t j) -> const S& { return runs[k].states[j]; });
+        }
+    }
+    res.basis = basis;
+    const bool differences = basis == error_basis::successive_differences;
+
+    // Fill the table: errors, floors, local orders.
+    const double inf = std::numeric_limits<double>::infinity();
+    for (std::size_t k = 0; k < L; ++k) {
+        study_level& lv = res.levels[k];
+        if (differences && k == 0) continue;
+        const bool ok = differences ? (ran[k] && ran[k - 1]) : ran[k];
+        lv.error_final = ok ? errs[k].final_error : inf;
+        lv.error_grid = ok ? errs[k].grid_error : inf;
+        const double scale = opt.fit_measure == error_measure::final_time ? errs[k].final_scale : errs[k].grid_scale;
+        lv.round_off_floor = ok ? opt.range.round_off_factor * std::sqrt(static_cast<double>(lv.steps)) * static_cast<double>(eps) * scale +
+                                      scale * ref_rel
+                                : std::numeric_limits<double>::quiet_NaN();
+    }
+    for (std::size_t k = differences ? 2 : 1; k < L; ++k) {
+        const double e_prev = res.levels[k - 1].error(opt.fit_measure), e = res.levels[k].error(opt.fit_measure);
+        res.levels[k].local_order = differences
+            ? three_level_order(res.levels[k - 2].h, res.levels[k - 1].h, res.levels[k].h, e_prev, e)
+            : detail::local_order_between(res.levels[k - 1].h, res.levels[k].h, e_prev, e);
+    }
+
+    // Asymptotic range over the error (or difference) sequence.
+    const std::size_t first_point_level = differences ? 1 : 0;
+    std::vector<convergence_point> pts;
+    for (std::size_t k = first_point_level; k < L; ++k) {
+        const study_level& lv = res.levels[k];
+        pts.push_back({lv.h, lv.error(opt.fit_measure), lv.local_order, lv.round_off_floor});
+    }
+    const asymptotic_range range = find_asymptotic_range(pts, opt.range);
+    if (differences) {
+        res.levels[0].status = level_status::baseline;
+        res.levels[0].note = ran[0] ? "coarsest level: the baseline of the first difference" : res.levels[0].note;
+    }
+    for (std::size_t i = 0; i < pts.size(); ++i) {
+        study_level& lv = res.levels[i + first_point_level];
+        lv.status = range.status[i];
+        if (lv.note.empty() || lv.status != level_status::non_finite) lv.note = range.notes[i];
+        if (lv.status == level_status::non_finite && (!ran[lv.index] || (differences && !ran[lv.index - 1])))
+            lv.note = ran[lv.index] ? "the previous level's run became NaN or infinite" : "the solution became NaN or infinite during the run";
+    }
+
+    if (range.found) {
+        res.verdict = study_verdict::order_fitted;
+        const std::size_t a = range.first + first_point_level, b = range.last + first_point_level;
+        std::vector<double> h, hc, e;
+        for (std::size_t k = a; k <= b; ++k) {
+            h.push_back(res.levels[k].h);
+            e.push_back(res.levels[k].error(opt.fit_measure));
+            if (differences) hc.push_back(res.levels[k - 1].h);
+        }
+        res.fit = differences ? fit_order_from_differences(hc, h, e, opt.confidence) : fit_order(h, e, opt.confidence);
+        // With differences the coarse partner of the first difference belongs to the range too.
+        res.range_first = differences ? a - 1 : a;
+        if (differences) {
+            res.levels[a - 1].status = level_status::in_range;
+            res.levels[a - 1].note = "coarse end of the first difference in the range (its own difference is not fitted)";
+        }
+        res.range_last = b;
+        res.verdict_text = range.verdict + (differences ? " (differences of levels " + std::to_string(res.range_first) + ".." +
+                                                              std::to_string(b) + ")"
+                                                        : " (levels " + std::to_string(a) + ".." + std::to_string(b) + ")");
+    } else {
+        res.verdict = study_verdict::no_asymptotic_range;
+        res.verdict_text = range.verdict;
+        if (differences && L == 3 && std::isfinite(res.levels[2].local_order))
+            res.verdict_text += "; the three levels give an observed order of " + detail::short_number(res.levels[2].local_order, "%.3f") +
+                                ", but one value cannot show that they are in the asymptotic range: add a level";
+    }
+    return res;
+}
+
+} // namespace stepcert
