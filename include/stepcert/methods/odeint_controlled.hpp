@@ -1,9 +1,7 @@
 #pragma once
 // Generic adaptive method over an odeint controlled stepper (try_step). The loop is odeint's
 // integrate_times for controlled steppers: a step that would pass an output time is cut to end
-// on it, and after the cut the previous step size is resumed; otherwise the controller's
-// proposal is taken as is (odeint's integrate_times keeps the larger of the old and the proposed
-// step, which makes Bulirsch–Stoer, whose proposals may shrink, reject far more steps). Differences, all on purpose:
+// on it, and after an accepted step the larger of the old and the proposed step size is kept. Differences, all on purpose:
 // f(t, y) is evaluated once per accepted point and reused by rejected attempts (odeint
 // re-evaluates it), accepted and rejected steps are counted, every loop is bounded (step-size
 // guard, plus the driver's evaluation budget), and a NaN state stops the run with a message.
@@ -47,8 +45,9 @@ struct odeint_controlled {
         using std::min;
         namespace odeint = boost::numeric::odeint;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
+        detail::check_tolerance_reachable(label, y, tol);
         auto stepper = Policy::template make<S>(tol);
-        const T t_end = times.back();
+        const T t_end = times.empty() ? t0 : times.back();  // never empty here; keeps -Warray-bounds quiet
         const T resolution = detail::time_resolution(t0, t_end);
         S dxdt = state_traits<S>::make(state_size(y));
         rhs(static_cast<const S&>(y), dxdt, t0);
@@ -70,9 +69,9 @@ struct odeint_controlled {
                     dxdt_current = false;
                     if (lands) t = target;
                     detail::require_finite_step(label, y, t_before, t);
-                    // The controller's proposal, except that a step cut short by an output time
-                    // resumes the step size it had before (as odeint's integrate_times does).
-                    dt = lands ? max(dt, try_dt) : try_dt;
+                    // As odeint's integrate_times: never below the step before, so a step cut
+                    // short by an output time does not shrink the next one.
+                    dt = max(dt, try_dt);
                 } else {
                     ++stats.rejected;
                     dt = try_dt;

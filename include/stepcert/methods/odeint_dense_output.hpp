@@ -47,9 +47,10 @@ struct odeint_dense_output {
         namespace odeint = boost::numeric::odeint;
         using controlled = odeint::controlled_runge_kutta<StepperFor<S>>;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
+        detail::check_tolerance_reachable(label, y, tol);
         controlled stepper(typename controlled::error_checker_type(static_cast<T>(tol.atol), static_cast<T>(tol.rtol)));
         const std::size_t n = state_size(y);
-        const T t_end = times.back();
+        const T t_end = times.empty() ? t0 : times.back();  // never empty here; keeps -Warray-bounds quiet
         const T resolution = detail::time_resolution(t0, t_end);
         // (x0, d0) at t: start of the step; (x1, d1) at t_new: its end; FSAL hands d1 to the next step.
         S x0 = y, d0 = state_traits<S>::make(n), x1 = state_traits<S>::make(n), d1 = state_traits<S>::make(n);

@@ -20,7 +20,7 @@
 namespace stepcert::detail {
 
 template <class T>
-std::string adaptive_time_text(const T& t) {
+std::string number_text(const T& t) {
     std::ostringstream os;
     os.precision(17);
     os << static_cast<long double>(t);
@@ -47,7 +47,25 @@ void check_adaptive_arguments(std::string_view method, const T& t0, const std::v
         const T& before = i == 0 ? t0 : times[i - 1];
         if (!(boost::math::isfinite)(times[i]) || !(times[i] > before))
             throw invalid_input(who + "output times must be finite and increase strictly from t0 (time " +
-                                std::to_string(i) + " is " + adaptive_time_text(times[i]) + ").");
+                                std::to_string(i) + " is " + number_text(times[i]) + ").");
+    }
+}
+
+/// A tolerance below the rounding of the initial values cannot be met: the error estimates of
+/// an embedded pair can still fall below it (they are formed from stage differences, not from
+/// rounded solutions), so the run would not fail by itself but creep on with needless tiny steps.
+template <class S>
+void check_tolerance_reachable(std::string_view method, const S& y0, const controller_tolerance& tol) {
+    using T = scalar_of<S>;
+    using std::abs;
+    const T floor = T(4) * std::numeric_limits<T>::epsilon();
+    for (std::size_t i = 0; i < state_size(y0); ++i) {
+        const T magnitude = abs(y0[i]);
+        if (magnitude > T(0) && static_cast<T>(tol.atol) + static_cast<T>(tol.rtol) * magnitude < floor * magnitude)
+            throw accuracy_unreachable(adaptive_who(method) + "the tolerance (atol " + number_text(tol.atol) + ", rtol " +
+                                       number_text(tol.rtol) + ") asks for less than the round-off of component " +
+                                       std::to_string(i) + " of the initial state in this scalar type (relative " +
+                                       number_text(floor) + "); loosen it or run in a wider scalar type.");
     }
 }
 
@@ -64,11 +82,11 @@ T time_resolution(const T& t0, const T& t_end) {
 template <class T>
 void guard_step_size(std::string_view method, const T& dt, const T& t, const T& resolution) {
     if (!(boost::math::isfinite)(dt))
-        throw non_finite_value(adaptive_who(method) + "the step size became NaN or infinite at t = " + adaptive_time_text(t) +
+        throw non_finite_value(adaptive_who(method) + "the step size became NaN or infinite at t = " + number_text(t) +
                                " (the right-hand side probably returned a non-finite value there); check it near that time.");
     if (!(dt > resolution))
-        throw accuracy_unreachable(adaptive_who(method) + "the step size fell to " + adaptive_time_text(dt) + " at t = " +
-                                   adaptive_time_text(t) +
+        throw accuracy_unreachable(adaptive_who(method) + "the step size fell to " + number_text(dt) + " at t = " +
+                                   number_text(t) +
                                    ", below what the time variable resolves in this scalar type; the tolerance is below "
                                    "round-off for this type, or the solution is singular or very stiff there. Loosen the "
                                    "tolerance, use a wider scalar type, or shorten the interval.");
@@ -79,7 +97,7 @@ template <class S, class T>
 void require_finite_step(std::string_view method, const S& y, const T& t_from, const T& t_to) {
     if (!all_finite(y))
         throw non_finite_value(adaptive_who(method) + "the solution became NaN or infinite between t = " +
-                               adaptive_time_text(t_from) + " and t = " + adaptive_time_text(t_to) +
+                               number_text(t_from) + " and t = " + number_text(t_to) +
                                " (the right-hand side returned a non-finite value, or the solution blows up); "
                                "check the right-hand side there.");
 }
@@ -89,7 +107,7 @@ template <class S, class T>
 void require_finite_derivative(std::string_view method, const S& f0, const T& t0) {
     if (!all_finite(f0))
         throw non_finite_value(adaptive_who(method) + "the right-hand side returned a NaN or infinite value at t0 = " +
-                               adaptive_time_text(t0) + "; check it at the initial state.");
+                               number_text(t0) + "; check it at the initial state.");
 }
 
 /// Starting step of E. Hairer, S. P. Nørsett, G. Wanner, Solving ODEs I, 2nd ed. (1993), §II.4
