@@ -9,3 +9,4 @@
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/method.hpp"
 #include "stepcert/run/run.hpp"
+#include "stepcert/problems/catalogue.hpp"
