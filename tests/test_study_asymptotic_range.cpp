@@ -141,3 +141,53 @@ TEST(AsymptoticRange, RejectsSettingsThatWouldFitTwoPoints) {
     s.order_spread = 0.0;
     EXPECT_THROW((void)stepcert::find_asymptotic_range(halving({1.0, 0.5, 0.25}), s), stepcert::invalid_input);
 }
+
+namespace {
+// Points with step ratio rho and the given local orders (errors built from them; derived).
+std::vector<stepcert::convergence_point> with_orders(double rho, const std::vector<double>& orders) {
+    std::vector<stepcert::convergence_point> p{{0.1, 1e-2, not_a_number, 0.0}};
+    for (double q : orders) {
+        const auto& prev = p.back();
+        p.push_back({prev.h / rho, prev.error / std::pow(rho, q), q, 0.0});
+    }
+    return p;
+}
+} // namespace
+
+TEST(AsymptoticRange, SmallStepRatiosWidenTheAllowedSpread) {
+    // Noisy orders (as adaptive levels give): spread 0.6. With ratio 2 they do not all agree
+    // within 0.3; with ratio 1.26 the allowance is 0.3 * ln 2 / ln 1.26 = 0.90.
+    const std::vector<double> noisy{5.4, 5.0, 5.6, 5.1, 5.3};
+    const auto halving_run = stepcert::find_asymptotic_range(with_orders(2.0, noisy));
+    ASSERT_TRUE(halving_run.found);
+    EXPECT_LT(halving_run.size(), 6u);
+    const auto small_ratio = stepcert::find_asymptotic_range(with_orders(1.26, noisy));
+    ASSERT_TRUE(small_ratio.found);
+    EXPECT_EQ(small_ratio.size(), 6u);
+}
+
+TEST(AsymptoticRange, CoarseEndDriftIsTrimmed) {
+    // Ratio 1.5 allows a spread of 0.3 * ln 2 / ln 1.5 = 0.51, so 4.45 .. 4.03 form one run; but 4.45
+    // differs from the median 4.09 of the finer orders by more than 0.3: it is still settling.
+    const auto r = stepcert::find_asymptotic_range(with_orders(1.5, {4.45, 4.25, 4.12, 4.06, 4.03}));
+    ASSERT_TRUE(r.found) << r.verdict;
+    EXPECT_EQ(r.first, 1u);
+    EXPECT_EQ(r.last, 5u);
+    EXPECT_EQ(r.status[0], level_status::pre_asymptotic);
+}
+
+TEST(AsymptoticRange, ErrorsAboveTheCeilingArePreAsymptotic) {
+    // A clean first-order sequence, but the first four errors are >= the ceiling 0.1 (no correct
+    // digit of a solution of size 1): only the last three levels may form the range.
+    auto pts = halving({0.8, 0.4, 0.2, 0.1, 0.05, 0.025, 0.0125});
+    EXPECT_EQ(stepcert::find_asymptotic_range(pts).size(), 7u);
+    for (auto& p : pts) p.ceiling = 0.1;
+    const auto r = stepcert::find_asymptotic_range(pts);
+    ASSERT_TRUE(r.found) << r.verdict;
+    EXPECT_EQ(r.first, 4u);
+    EXPECT_EQ(r.last, 6u);
+    for (std::size_t k = 0; k < 4; ++k) {
+        EXPECT_EQ(r.status[k], level_status::pre_asymptotic) << k;
+        EXPECT_NE(r.notes[k].find("no correct digit"), std::string::npos) << r.notes[k];
+    }
+}

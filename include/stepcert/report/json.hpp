@@ -59,6 +59,7 @@ inline nlohmann::json study_to_json(const order_study_result& r) {
     j["problem"] = r.problem;
     j["method"] = r.method;
     j["declared_order"] = r.declared_order;
+    j["variable_order"] = r.variable_order;
     j["control"] = std::string(detail::step_control_text(r.control));
     j["ladder"] = r.ladder;
     j["ratio"] = json_number(r.ratio);
@@ -114,6 +115,7 @@ inline order_study_result study_from_json(const nlohmann::json& j) {
         r.problem = j.at("problem").get<std::string>();
         r.method = j.at("method").get<std::string>();
         r.declared_order = j.at("declared_order").get<int>();
+        r.variable_order = j.at("variable_order").get<bool>();
         const auto control = j.at("control").get<std::string>();
         if (control != "fixed" && control != "adaptive")
             throw invalid_input("stepcert: study JSON field 'control' must be \"fixed\" or \"adaptive\".");

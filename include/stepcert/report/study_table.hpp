@@ -46,8 +46,12 @@ inline void write_study_table(std::ostream& os, const order_study_result& r) {
     using detail::table_number;
     const bool adaptive = r.control == step_control::adaptive;
     const bool diffs = r.basis == error_basis::successive_differences;
-    os << "order study: problem '" << r.problem << "', method '" << r.method << "' (declared order " << r.declared_order << ", "
-       << detail::step_control_text(r.control) << " step)\n";
+    os << "order study: problem '" << r.problem << "', method '" << r.method << "' (";
+    if (r.variable_order)
+        os << "variable order";
+    else
+        os << "declared order " << r.declared_order;
+    os << ", " << detail::step_control_text(r.control) << " step)\n";
     os << "levels: " << r.ladder << "; output grid: " << r.grid_points << (r.grid_points == 1 ? " time (the final one)" : " times") << "; working precision: " << r.working_digits
        << " digits\n";
     os << "error basis: " << to_string(r.basis) << " - " << r.basis_detail << "\n";
@@ -76,15 +80,15 @@ inline void write_study_table(std::ostream& os, const order_study_result& r) {
     if (adaptive) os << pad_left("tolerance", 11);
     os << pad_left("steps", 11);
     if (adaptive) os << pad_left("rejected", 9);
-    os << pad_left("evaluations", 13) << pad_left(e_final, 13) << pad_left(e_grid, 13) << pad_left("local order", 12)
+    os << pad_left("evaluations", 13) << pad_left(e_final, 14) << pad_left(e_grid, 14) << pad_left("local order", 13)
        << "  range\n";
     for (const study_level& lv : r.levels) {
         os << pad_left(std::to_string(lv.index), 5) << pad_left(table_number(lv.h), 11);
         if (adaptive) os << pad_left(table_number(lv.tolerance, "%.1e"), 11);
         os << pad_left(std::to_string(lv.steps), 11);
         if (adaptive) os << pad_left(std::to_string(lv.rejected), 9);
-        os << pad_left(std::to_string(lv.evaluations), 13) << pad_left(table_number(lv.error_final), 13)
-           << pad_left(table_number(lv.error_grid), 13) << pad_left(table_number(lv.local_order, "%.3f"), 12) << "  "
+        os << pad_left(std::to_string(lv.evaluations), 13) << pad_left(table_number(lv.error_final), 14)
+           << pad_left(table_number(lv.error_grid), 14) << pad_left(table_number(lv.local_order, "%.3f"), 13) << "  "
            << detail::pad_right(std::string(detail::range_mark(lv.status)), 20);
         if (!lv.note.empty()) os << " " << lv.note;
         os << "\n";

@@ -5,15 +5,22 @@
 // Input: points from coarse to fine, each with its step h, its error (or difference), the
 // local order q_i between point i-1 and point i, and a round-off floor.
 // Algorithm:
-//  1. A point is usable when its error is finite, > 0 and above its floor (NaN/inf never count
-//     as small; an error at or below the floor is round-off, not discretization error).
+//  1. A point is usable when its error is finite, > 0, above its floor and below its ceiling
+//     (NaN/inf never count as small; an error at or below the floor is round-off, not
+//     discretization error; an error above the ceiling, by default 10% of the solution's size,
+//     leaves no correct digit, so the expansion in powers of h cannot have taken hold yet).
 //  2. The interval between points i-1 and i is converging when both points are usable and
 //     q_i > stall_order (the error really falls).
 //  3. Among all runs of consecutive converging intervals, keep those whose local orders agree:
-//     max(q) - min(q) <= max(order_spread, relative_order_spread * |median q|).
+//     max(q) - min(q) <= max(order_spread, relative_order_spread * |median q|) * w, where
+//     w = min(4, max(1, ln 2 / ln rho)) and rho is the smallest step ratio in the run: the
+//     spreads are meant for halving, and a given wobble of log(error) moves a local order by
+//     1/ln(rho), so smaller ratios (rounded ladders, adaptive levels) get a wider allowance.
 //  4. Take the longest such run (ties: smaller spread, then the finer run). It must cover at
 //     least min_points points (>= 3, i.e. two intervals); otherwise the verdict is
-//     "no asymptotic range found" and nothing is fitted.
+//     "no asymptotic range found" and nothing is fitted. Then let it settle: while more than
+//     min_points remain, drop its coarsest interval if that local order differs from the median
+//     of the finer ones by more than the unwidened spread (a drift towards the asymptotic order).
 //  5. Points coarser than the run are pre-asymptotic. Points finer than it belong to the
 //     round-off plateau from the first one that is below its floor, stops falling, or whose
 //     local order collapses below the run's orders; finer points whose order rises above the
@@ -52,7 +59,9 @@ inline std::string_view to_string(level_status s) {
 struct range_settings {
     double order_spread = 0.3;            ///< local orders in the range agree within this ...
     double relative_order_spread = 0.05;  ///< ... or this fraction of the order, whichever is larger
+                                          ///< (both for step ratio 2; widened for smaller ratios)
     double stall_order = 0.5;             ///< local order at or below this: the error stopped falling
+    double max_relative_error = 0.1;      ///< errors above this times |y| are pre-asymptotic (see order_study.hpp)
     double round_off_factor = 1.0;        ///< scales the floor sqrt(N) * eps * |y| (see order_study.hpp)
     std::size_t min_points = 3;           ///< fewest levels a fit may use (>= 3)
 
@@ -62,6 +71,8 @@ struct range_settings {
             throw invalid_input("stepcert: range_settings: order_spread must be finite and > 0, relative_order_spread finite and >= 0.");
         if (!std::isfinite(stall_order))
             throw invalid_input("stepcert: range_settings: stall_order must be finite.");
+        if (!(max_relative_error > 0.0))
+            throw invalid_input("stepcert: range_settings: max_relative_error must be > 0 (infinity switches the ceiling off).");
         if (!(round_off_factor >= 0.0) || !std::isfinite(round_off_factor))
             throw invalid_input("stepcert: range_settings: round_off_factor must be finite and >= 0.");
         if (min_points < 3)
@@ -75,6 +86,7 @@ struct convergence_point {
     double error;        ///< error or successive difference in the study's norm
     double local_order;  ///< order between the previous point and this one (NaN for the first)
     double floor;        ///< round-off floor for this point's error
+    double ceiling = std::numeric_limits<double>::infinity();  ///< errors above it have no correct digit
 };
 
 struct asymptotic_range {
@@ -96,6 +108,11 @@ inline std::string short_number(double x, const char* fmt = "%.3g") {
     std::snprintf(buf, sizeof buf, fmt, x);
     return buf;
 }
+// Widening of the order spread for step ratio rho (see the header comment).
+inline double ratio_widening(double rho) {
+    if (!(rho > 1.0)) return 4.0;
+    return std::min(4.0, std::max(1.0, std::log(2.0) / std::log(rho)));
+}
 inline double median_of(std::vector<double> v) {
     std::sort(v.begin(), v.end());
     const std::size_t n = v.size();
@@ -111,35 +128,55 @@ inline asymptotic_range find_asymptotic_range(std::span<const convergence_point>
     r.status.assign(n, level_status::unsettled);
     r.notes.assign(n, std::string());
 
-    std::vector<char> finite(n), usable(n), converging(n, 0);
+    std::vector<char> finite(n), usable(n), too_large(n), converging(n, 0);
     for (std::size_t i = 0; i < n; ++i) {
         finite[i] = std::isfinite(pts[i].error) && std::isfinite(pts[i].h);
-        usable[i] = finite[i] && pts[i].error > 0.0 && pts[i].error > pts[i].floor;
+        too_large[i] = finite[i] && !(pts[i].error < pts[i].ceiling);
+        usable[i] = finite[i] && pts[i].error > 0.0 && pts[i].error > pts[i].floor && !too_large[i];
     }
     for (std::size_t i = 1; i < n; ++i)
         converging[i] = usable[i - 1] && usable[i] && std::isfinite(pts[i].local_order) && pts[i].local_order > s.stall_order;
 
     // Best run of intervals [a, b] (interval i joins points i-1 and i).
     std::size_t best_a = 0, best_b = 0, best_len = 0;
-    double best_spread = 0.0, best_median = 0.0;
+    double best_spread = 0.0, best_median = 0.0, best_allowed = 0.0;
     for (std::size_t a = 1; a < n; ++a) {
         if (!converging[a]) continue;
-        double lo = pts[a].local_order, hi = lo;
+        double lo = pts[a].local_order, hi = lo, widening = 1.0;
         std::vector<double> qs;
         for (std::size_t b = a; b < n && converging[b]; ++b) {
             const double q = pts[b].local_order;
             lo = std::min(lo, q);
             hi = std::max(hi, q);
             qs.push_back(q);
+            widening = std::max(widening, detail::ratio_widening(pts[b - 1].h / pts[b].h));
             const double med = detail::median_of(qs);
-            const double allowed = std::max(s.order_spread, s.relative_order_spread * std::abs(med));
+            const double allowed = std::max(s.order_spread, s.relative_order_spread * std::abs(med)) * widening;
             if (hi - lo > allowed) continue;  // a longer run may still agree around a new median
             const std::size_t len = b - a + 1;
             const double spread = hi - lo;
             if (len > best_len || (len == best_len && spread <= best_spread)) {  // ties: finer wins
-                best_a = a; best_b = b; best_len = len; best_spread = spread; best_median = med;
+                best_a = a; best_b = b; best_len = len; best_spread = spread; best_median = med; best_allowed = allowed;
             }
         }
+    }
+
+    // Settling: drop coarse-end intervals whose order differs from the median of the finer ones
+    // by more than the unwidened spread (a drift towards the asymptotic order, not noise).
+    if (best_len + 1 >= s.min_points) {
+        auto base_allowance = [&](double med) { return std::max(s.order_spread, s.relative_order_spread * std::abs(med)); };
+        while (best_b - best_a + 2 > s.min_points) {
+            std::vector<double> finer;
+            for (std::size_t i = best_a + 1; i <= best_b; ++i) finer.push_back(pts[i].local_order);
+            const double med = detail::median_of(finer);
+            if (std::abs(pts[best_a].local_order - med) <= base_allowance(med)) break;
+            ++best_a;
+        }
+        std::vector<double> qs;
+        for (std::size_t i = best_a; i <= best_b; ++i) qs.push_back(pts[i].local_order);
+        best_len = qs.size();
+        best_median = detail::median_of(qs);
+        best_spread = *std::max_element(qs.begin(), qs.end()) - *std::min_element(qs.begin(), qs.end());
     }
 
     std::size_t usable_count = 0;
@@ -149,6 +186,12 @@ inline asymptotic_range find_asymptotic_range(std::span<const convergence_point>
         if (!finite[i]) {
             r.status[i] = level_status::non_finite;
             r.notes[i] = "error is NaN or infinite";
+            return true;
+        }
+        if (too_large[i]) {
+            r.status[i] = r.found && i > r.last ? level_status::unsettled : level_status::pre_asymptotic;
+            r.notes[i] = "error " + detail::short_number(pts[i].error) + " is above " + detail::short_number(pts[i].ceiling) +
+                         " (no correct digit yet)";
             return true;
         }
         if (!usable[i]) {
@@ -165,12 +208,12 @@ inline asymptotic_range find_asymptotic_range(std::span<const convergence_point>
             if (!mark_unusable(i)) r.notes[i] = "local orders do not settle here";
         if (usable_count < s.min_points)
             r.verdict = "no asymptotic range found: only " + std::to_string(usable_count) +
-                        " levels have finite errors above the round-off floor (need " + std::to_string(s.min_points) +
-                        "); add levels between the divergent coarse ones and the round-off plateau";
+                        " levels have finite errors between the round-off floor and the no-correct-digit ceiling (need " +
+                        std::to_string(s.min_points) + "); add levels between the coarse ones and the round-off plateau";
         else
             r.verdict = "no asymptotic range found: no " + std::to_string(s.min_points) +
                         " consecutive levels have falling errors with local orders that agree within " +
-                        detail::short_number(s.order_spread) + " (longest agreeing run: " +
+                        detail::short_number(s.order_spread) + " (widened for step ratios below 2; longest agreeing run: " +
                         std::to_string(best_len == 0 ? std::size_t{1} : best_len + 1) +
                         " levels); add levels, or check the method and the problem";
         return r;
@@ -183,7 +226,7 @@ inline asymptotic_range find_asymptotic_range(std::span<const convergence_point>
     r.spread = best_spread;
     double range_lo = pts[best_a].local_order;
     for (std::size_t i = best_a; i <= best_b; ++i) range_lo = std::min(range_lo, pts[i].local_order);
-    const double allowed = std::max(s.order_spread, s.relative_order_spread * std::abs(best_median));
+    const double allowed = best_allowed;
     const std::string range_orders = "the range's local orders " + detail::short_number(range_lo, "%.2f") + " .. " +
                                      detail::short_number(range_lo + best_spread, "%.2f");
 
@@ -197,7 +240,7 @@ inline asymptotic_range find_asymptotic_range(std::span<const convergence_point>
     bool plateau = false;
     for (std::size_t i = r.last + 1; i < n; ++i) {
         if (mark_unusable(i)) {
-            plateau = plateau || finite[i];
+            plateau = plateau || (finite[i] && !too_large[i]);
             continue;
         }
         const double q = pts[i].local_order;

@@ -6,13 +6,16 @@
 // Error basis (options.basis, `automatic` takes the first that applies):
 //  1. the problem's exact solution, evaluated in exact_evaluation_real (50 digits) when it is
 //     generic in the scalar type, else in the problem's own scalar type;
-//  2. a multiprecision reference_solution at the grid times (when the reference module is present);
+//  2. a multiprecision reference_solution at the grid times, only for problems without an exact
+//     solution (so studies of problems with one never instantiate multiprecision integrators);
+//     chosen automatically and unable to vouch for its digits, it falls back to 3, saying why;
 //  3. no reference: differences of successive levels, Richardson's observed order.
 // Round-off floor of a level with N steps: round_off_factor * sqrt(N) * eps * |y| in the norm's
 // units (statistical accumulation of rounding errors; common practice, no source), plus the
 // reference's own uncertainty |y| * 10^-digits. Measured with classic RK4 on Kepler e = 0.5, the
 // plateau sits 5-60x above sqrt(N) eps |y|, while N eps |y| would already discard levels on the
 // clean slope, so the floor is a backstop and the plateau is mostly detected by its local orders.
+#include <algorithm>
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -166,6 +169,7 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     res.problem = p.name();
     res.method = std::string(m.name());
     res.declared_order = m.order();
+    res.variable_order = has_variable_order_v<M>;
     res.control = M::control;
     res.ladder = ladder.describe();
     res.ratio = ladder.ratio;
@@ -238,11 +242,15 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     if (basis == error_basis::exact_solution && !P::has_exact)
         throw unsupported_operation("stepcert::order_study: error_basis::exact_solution was asked for, but problem '" + p.name() +
                                     "' has no exact solution; attach one with .with_exact(...) or use another basis.");
+    if (basis == error_basis::reference_solution && P::has_exact)
+        throw unsupported_operation("stepcert::order_study: problem '" + p.name() + "' has an exact solution, so no reference "
+                                    "solution is computed for it (that keeps multiprecision integrators out of such studies); "
+                                    "use error_basis::exact_solution, or build the problem without .with_exact(...).");
 
     const Tr eps = std::numeric_limits<Tr>::epsilon();
-    const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
     std::vector<detail::grid_errors> errs(L);
     double ref_rel = 0.0;  // the reference's own relative uncertainty
+    std::string fallback_note;
 
     if (basis == error_basis::exact_solution) {
         if constexpr (P::has_exact) {
@@ -265,29 +273,43 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
         }
     } else if (basis == error_basis::reference_solution) {
 #if STEPCERT_STUDY_HAS_REFERENCE
-        std::vector<double> times;
-        for (std::size_t j = 1; j <= G; ++j) times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
-        const auto ref = reference_solution(p, digits_asked, times);
-        if (ref.states.size() != G)
-            throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
-                        " states for " + std::to_string(G) + " grid times.");
-        res.reference_digits = ref.vouched_digits;
-        res.reference_evaluations = ref.cost.evaluations;
-        res.total_evaluations += ref.cost.evaluations;
-        ref_rel = std::pow(10.0, -ref.vouched_digits);
-        res.basis_detail = "reference solution (" + std::to_string(digits_asked) + " digits asked, " +
-                           detail::short_number(ref.vouched_digits, "%.1f") + " vouched): " + ref.how;
-        for (std::size_t k = 0; k < L; ++k)
-            if (ran[k])
-                errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G, [&](std::size_t j) -> const auto& { return ref.states[j - 1]; });
+        if constexpr (!P::has_exact) {
+            const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
+            std::vector<double> times;
+            for (std::size_t j = 1; j <= G; ++j)
+                times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
+            reference_options ro;
+            ro.max_evaluations = opt.budget.max_evaluations - std::min(opt.budget.max_evaluations, spent);
+            try {
+                const auto ref = reference_solution(p, digits_asked, times, ro);
+                if (ref.states.size() != G)
+                    throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
+                                " states for " + std::to_string(G) + " grid times.");
+                res.reference_digits = ref.vouched_digits;
+                res.reference_evaluations = ref.cost.evaluations;
+                res.total_evaluations += ref.cost.evaluations;
+                ref_rel = std::pow(10.0, -ref.vouched_digits);
+                res.basis_detail = "reference solution (" + std::to_string(digits_asked) + " digits asked, " +
+                                   detail::short_number(ref.vouched_digits, "%.1f") + " vouched): " + ref.how;
+                for (std::size_t k = 0; k < L; ++k)
+                    if (ran[k])
+                        errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G,
+                                                         [&](std::size_t j) -> const auto& { return ref.states[j - 1]; });
+            } catch (const accuracy_unreachable& e) {
+                // Asked for explicitly: the user wants to know. Chosen automatically: say why, then fall back.
+                if (opt.basis == error_basis::reference_solution) throw;
+                basis = error_basis::successive_differences;
+                fallback_note = std::string(" (no reference solution: ") + e.what() + ")";
+            }
+        }
 #else
-        (void)digits_asked;
         throw unsupported_operation("stepcert::order_study: error_basis::reference_solution needs stepcert/reference/reference_solution.hpp, "
                                     "which this installation lacks; use an exact solution or error_basis::successive_differences.");
 #endif
-    } else {
+    }
+    if (basis == error_basis::successive_differences) {
         res.basis_detail = "no reference: the error columns hold differences |y_k - y_(k-1)| of successive levels "
-                           "(Richardson's observed order)";
+                           "(Richardson's observed order)" + fallback_note;
         for (std::size_t k = 1; k < L; ++k) {
             if (!ran[k] || !ran[k - 1]) {
                 errs[k].final_error = errs[k].grid_error = std::numeric_limits<double>::infinity();
@@ -299,8 +321,21 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     res.basis = basis;
     const bool differences = basis == error_basis::successive_differences;
 
-    // Fill the table: errors, floors, local orders.
+    // Fill the table: errors, floors, local orders. The ceiling scale includes y0, so a solution
+    // that passes through zero at the grid times still has a size.
     const double inf = std::numeric_limits<double>::infinity();
+    const double y0_scale = detail::state_scale(opt.norm, p.y0());
+    std::vector<double> ceilings(L, inf);
+    // With differences the best size estimate is the finest solution that ran (coarse ones may have blown up).
+    double solution_scale = 0.0;
+    for (std::size_t k = L; k-- > 0;)
+        if (ran[k]) {
+            solution_scale = differences ? std::max(solution_scale, detail::errors_on_grid(opt.norm, runs[k].states, G, [&](std::size_t j) -> const S& {
+                                                                         return runs[k].states[j];
+                                                                     }).grid_scale)
+                                         : 0.0;
+            break;
+        }
     for (std::size_t k = 0; k < L; ++k) {
         study_level& lv = res.levels[k];
         if (differences && k == 0) continue;
@@ -308,6 +343,8 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
         lv.error_final = ok ? errs[k].final_error : inf;
         lv.error_grid = ok ? errs[k].grid_error : inf;
         const double scale = opt.fit_measure == error_measure::final_time ? errs[k].final_scale : errs[k].grid_scale;
+        const double size = std::max(y0_scale, differences ? solution_scale : errs[k].grid_scale) * opt.range.max_relative_error;
+        if (ok && size > 0.0) ceilings[k] = size;
         lv.round_off_floor = ok ? opt.range.round_off_factor * std::sqrt(static_cast<double>(lv.steps)) * static_cast<double>(eps) * scale +
                                       scale * ref_rel
                                 : std::numeric_limits<double>::quiet_NaN();
@@ -324,12 +361,12 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     std::vector<convergence_point> pts;
     for (std::size_t k = first_point_level; k < L; ++k) {
         const study_level& lv = res.levels[k];
-        pts.push_back({lv.h, lv.error(opt.fit_measure), lv.local_order, lv.round_off_floor});
+        pts.push_back({lv.h, lv.error(opt.fit_measure), lv.local_order, lv.round_off_floor, ceilings[k]});
     }
     const asymptotic_range range = find_asymptotic_range(pts, opt.range);
     if (differences) {
-        res.levels[0].status = level_status::baseline;
-        res.levels[0].note = ran[0] ? "coarsest level: the baseline of the first difference" : res.levels[0].note;
+        res.levels[0].status = ran[0] ? level_status::baseline : level_status::non_finite;
+        if (ran[0]) res.levels[0].note = "coarsest level: the baseline of the first difference";
     }
     for (std::size_t i = 0; i < pts.size(); ++i) {
         study_level& lv = res.levels[i + first_point_level];

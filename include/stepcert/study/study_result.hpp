@@ -96,6 +96,7 @@ struct order_study_result {
     std::string problem;
     std::string method;
     int declared_order = 0;
+    bool variable_order = false;  ///< the method has no fixed order (e.g. Bulirsch–Stoer); declared_order is 0
     step_control control = step_control::fixed;
     std::string ladder;  ///< how the levels were built
     double ratio = std::numeric_limits<double>::quiet_NaN();

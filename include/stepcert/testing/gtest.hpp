@@ -23,21 +23,33 @@ inline ::testing::AssertionResult converges_at_order(const order_study_result& r
         return ::testing::AssertionFailure() << "converges_at_order: expected order and tolerance must be finite, tolerance >= 0";
     const std::string what = "order study of method '" + r.method + "' on problem '" + r.problem + "'";
     if (!r.fitted())
-        return ::testing::AssertionFailure() << what << ": no asymptotic range found, so the expected order " << expected
+        return ::testing::AssertionFailure() << what << ": no asymptotic range found, so the expected order "
+                                             << detail::table_number(expected, "%g")
                                              << " cannot be confirmed\n"
                                              << study_table(r);
+    using detail::table_number;
     const double p = r.fit.order;
+    const std::string fitted = what + ": fitted order " + table_number(p, "%.3f");
     if (std::abs(p - expected) <= tolerance)
-        return ::testing::AssertionSuccess() << what << ": fitted order " << p << " is within " << tolerance << " of " << expected;
+        return ::testing::AssertionSuccess() << fitted << " is within " << table_number(tolerance, "%g") << " of "
+                                             << table_number(expected, "%g");
     auto failure = ::testing::AssertionFailure();
-    failure << what << ": fitted order " << p;
-    if (r.fit.has_interval()) failure << " (" << 100.0 * r.fit.confidence << "% CI " << r.fit.lower << " .. " << r.fit.upper << ")";
-    failure << " is not within " << tolerance << " of the expected order " << expected << "\n" << study_table(r);
+    failure << fitted;
+    if (r.fit.has_interval())
+        failure << " (" << table_number(100.0 * r.fit.confidence, "%g") << "% CI " << table_number(r.fit.lower, "%.3f") << " .. "
+                << table_number(r.fit.upper, "%.3f") << ")";
+    failure << " is not within " << table_number(tolerance, "%g") << " of the expected order " << table_number(expected, "%g")
+            << "\n"
+            << study_table(r);
     return failure;
 }
 
 /// converges_at_order against the method's declared order.
 inline ::testing::AssertionResult converges_at_declared_order(const order_study_result& r, double tolerance = 0.2) {
+    if (r.variable_order)
+        return ::testing::AssertionFailure() << "method '" << r.method
+                                             << "' has no fixed declared order; use converges_at_order with the order you expect\n"
+                                             << study_table(r);
     return converges_at_order(r, static_cast<double>(r.declared_order), tolerance);
 }
 
@@ -58,7 +70,12 @@ template <class T = void, class P, class M, class Ladder>
 template <class T = void, class P, class M, class Ladder>
 ::testing::AssertionResult study_converges_at_declared_order(const P& p, const M& m, const Ladder& ladder, double tolerance = 0.2,
                                                              const study_options& opt = {}) {
-    return study_converges_at_order<T>(p, m, ladder, static_cast<double>(m.order()), tolerance, opt);
+    try {
+        return converges_at_declared_order(order_study<T>(p, m, ladder, opt), tolerance);
+    } catch (const std::exception& e) {
+        return ::testing::AssertionFailure() << "order study of method '" << m.name() << "' on problem '" << p.name()
+                                             << "' failed: " << e.what();
+    }
 }
 
 } // namespace stepcert::testing
