@@ -10,3 +10,7 @@
 #include "stepcert/methods/method.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/problems/catalogue.hpp"
+#include "stepcert/study/ladder.hpp"
+#include "stepcert/study/order_study.hpp"
+#include "stepcert/report/study_table.hpp"
+#include "stepcert/report/csv.hpp"
