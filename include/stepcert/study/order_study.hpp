@@ -178,19 +178,22 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     res.norm = opt.norm;
     res.levels.resize(L);
 
-    // Output grid common to all levels.
+    // Output grid common to all levels. Every basis compares at these nominal times; a run's
+    // own output time differs from them by rounding only (about one ulp of t).
     std::vector<std::size_t> steps_of;
     std::size_t G = 0;
-    std::vector<Tr> adaptive_times;
     if constexpr (fixed) {
         steps_of = ladder.steps();
         G = ladder.common_divisor();
     } else {
         G = opt.adaptive_grid_points;
-        const Tr a = static_cast<Tr>(p.t0()), b = static_cast<Tr>(p.t1());
-        for (std::size_t j = 1; j <= G; ++j)
-            adaptive_times.push_back(j == G ? b : a + (b - a) * static_cast<Tr>(j) / static_cast<Tr>(G));
     }
+    std::vector<double> grid_times;  // j = 1..G
+    for (std::size_t j = 1; j <= G; ++j)
+        grid_times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
+    std::vector<Tr> adaptive_times;
+    if constexpr (!fixed)
+        for (double t : grid_times) adaptive_times.push_back(static_cast<Tr>(t));
     res.grid_points = G;
 
     // Runs, within one evaluation budget for the whole study.
@@ -259,29 +262,25 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
             res.reference_digits = std::numeric_limits<X>::digits10;
             ref_rel = std::pow(10.0, -res.reference_digits);
             res.basis_detail = "exact solution, evaluated with " + std::to_string(std::numeric_limits<X>::digits10) +
-                               " digits at each level's output times";
+                               " digits at the grid times";
             if constexpr (std::is_same_v<X, typename P::scalar_type> && !std::is_same_v<X, exact_evaluation_real>)
                 res.basis_detail += " (the exact solution is not generic in the scalar type, so it ran in the problem's own type)";
-            SX y = state_traits<SX>::make(p.dimension());
-            for (std::size_t k = 0; k < L; ++k) {
-                if (!ran[k]) continue;
-                errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G, [&](std::size_t j) -> const SX& {
-                    p.exact()(static_cast<X>(runs[k].times[j]), y);
-                    return y;
-                });
-            }
+            std::vector<SX> exact_states(G, state_traits<SX>::make(p.dimension()));
+            for (std::size_t j = 1; j <= G; ++j) p.exact()(static_cast<X>(grid_times[j - 1]), exact_states[j - 1]);
+            for (std::size_t k = 0; k < L; ++k)
+                if (ran[k])
+                    errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G,
+                                                     [&](std::size_t j) -> const SX& { return exact_states[j - 1]; });
         }
     } else if (basis == error_basis::reference_solution) {
 #if STEPCERT_STUDY_HAS_REFERENCE
         if constexpr (!P::has_exact) {
             const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
-            std::vector<double> times;
-            for (std::size_t j = 1; j <= G; ++j)
-                times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
             reference_options ro;
             ro.max_evaluations = opt.budget.max_evaluations - std::min(opt.budget.max_evaluations, spent);
+            ro.allow_fewer_digits_if_double_only = !opt.require_reference_digits;
             try {
-                const auto ref = reference_solution(p, digits_asked, times, ro);
+                const auto ref = reference_solution(p, digits_asked, grid_times, ro);
                 if (ref.states.size() != G)
                     throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
                                 " states for " + std::to_string(G) + " grid times.");
@@ -374,6 +373,17 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
         if (lv.note.empty() || lv.status != level_status::non_finite) lv.note = range.notes[i];
         if (lv.status == level_status::non_finite && (!ran[lv.index] || (differences && !ran[lv.index - 1])))
             lv.note = ran[lv.index] ? "the previous level's run became NaN or infinite" : "the solution became NaN or infinite during the run";
+    }
+
+    // Name the reference when its uncertainty, not round-off, is what the floor is made of.
+    for (study_level& lv : res.levels) {
+        if (lv.status != level_status::round_off_plateau || ref_rel == 0.0 || !std::isfinite(lv.round_off_floor)) continue;
+        const double scale = opt.fit_measure == error_measure::final_time ? errs[lv.index].final_scale : errs[lv.index].grid_scale;
+        const double ref_part = scale * ref_rel;
+        if (lv.error(opt.fit_measure) <= lv.round_off_floor && ref_part >= 0.5 * lv.round_off_floor)
+            lv.note = "error " + detail::short_number(lv.error(opt.fit_measure)) + " is within the reference's own uncertainty " +
+                      detail::short_number(ref_part) + " (" + detail::short_number(res.reference_digits, "%.1f") +
+                      " digits vouched) plus round-off";
     }
 
     if (range.found) {

@@ -55,6 +55,7 @@ struct study_options {
     run_options budget{};                                ///< evaluations for all levels together
     error_basis basis = error_basis::automatic;
     int reference_digits = 0;                            ///< digits asked of a reference; 0: working digits + 5
+    bool require_reference_digits = false;               ///< a reference that vouches fewer digits is unusable
     std::size_t adaptive_grid_points = 16;               ///< output times for adaptive ladders
     range_settings range{};
 
