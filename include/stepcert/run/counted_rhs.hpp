@@ -7,6 +7,13 @@
 #include "stepcert/core/error.hpp"
 
 namespace stepcert {
+namespace detail {
+// Out of line and cold, so the counted call stays small enough to inline into every stage.
+[[noreturn, gnu::noinline, gnu::cold]] inline void throw_budget_exhausted(std::size_t budget) {
+    throw budget_exhausted("stepcert: the run exceeded its budget of " + std::to_string(budget) +
+                           " right-hand-side evaluations; raise run_options::max_evaluations or use a larger step/tolerance.");
+}
+} // namespace detail
 
 template <class Rhs>
 struct counted_rhs {
@@ -16,9 +23,8 @@ struct counted_rhs {
 
     template <class S, class T>
     void operator()(const S& y, S& dydt, T t) const {
-        if (++*count > budget)
-            throw budget_exhausted("stepcert: the run exceeded its budget of " + std::to_string(budget) +
-                                   " right-hand-side evaluations; raise run_options::max_evaluations or use a larger step/tolerance.");
+        if (++*count > budget) [[unlikely]]
+            detail::throw_budget_exhausted(budget);
         (*rhs)(y, dydt, t);
     }
 };

@@ -25,16 +25,16 @@ void check_uniform_arguments(std::string_view method, const T& h, std::size_t n,
 }
 
 /// step(y, t, h) advances y by one step; t is computed from the step index (no drift).
+/// The observer is called between blocks of stride steps, never inside the inner loop, so the
+/// compiler keeps the stepper's work in registers there (an observer call in the hot loop
+/// made the whole run 15-70% slower on a 4-dimensional problem).
 template <class Step, class S, class T, class Obs>
 void uniform_loop(Step&& step, S& y, const T& t0, const T& h, std::size_t n, std::size_t stride, Obs& obs) {
     obs(std::as_const(y), t0);
-    std::size_t until_output = stride;
-    for (std::size_t k = 0; k < n; ++k) {
-        step(y, t0 + static_cast<T>(k) * h, h);
-        if (--until_output == 0) {
-            until_output = stride;
-            obs(std::as_const(y), t0 + static_cast<T>(k + 1) * h);
-        }
+    std::size_t k = 0;
+    for (std::size_t block = n / stride; block > 0; --block) {
+        for (const std::size_t end = k + stride; k < end; ++k) step(y, t0 + static_cast<T>(k) * h, h);
+        obs(std::as_const(y), t0 + static_cast<T>(k) * h);
     }
 }
 
