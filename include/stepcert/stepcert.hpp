@@ -23,3 +23,4 @@
 #include "stepcert/methods/adams_bashforth_moulton.hpp"
 #include "stepcert/methods/symplectic_rkn.hpp"
 #include "stepcert/methods/one_step_method.hpp"
+#include "stepcert/reference/reference_solution.hpp"

@@ -1,0 +1,67 @@
+// Vouched digits against exact solutions: the true error of the reference must be below
+// 10^-vouched_digits relative to ||y(t)||_inf at every output time (the definition in
+// reference/agreement.hpp), and vouched_digits must reach the digits requested.
+#include <array>
+#include <cmath>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "stepcert/problems/kepler.hpp"
+#include "test_reference_support.hpp"
+
+namespace {
+
+using reference_test::cpp_bin_float_50;
+using reference_test::true_digits;
+using reference_test::true_relative_error;
+namespace pr = stepcert::problems;
+
+// Kepler's problem, e = 0.5, t = 20: the exact solution from Kepler's equation (solved in
+// cpp_bin_float_50) reproduces the check values x = -0.578043295303536, y = 0.863384000919419
+// (derived by us from the exact solution; problem: T. E. Hull, W. H. Enright, B. M. Fellen,
+// A. E. Sedgwick, "Comparing numerical methods for ordinary differential equations", SIAM J.
+// Numer. Anal. 9 (1972) 603-637, problem class D; definitions partly from memory).
+TEST(ReferenceVouchedExact, KeplerExactSolutionMatchesCheckValues) {
+    const auto p = pr::kepler<cpp_bin_float_50>(cpp_bin_float_50("0.5"), cpp_bin_float_50(20));
+    std::array<cpp_bin_float_50, 4> y{};
+    p.exact()(cpp_bin_float_50(20), y);
+    // 15 decimals given: within 1e-15.
+    EXPECT_NEAR(static_cast<double>(y[0]), -0.578043295303536, 1e-15);
+    EXPECT_NEAR(static_cast<double>(y[1]), 0.863384000919419, 1e-15);
+}
+
+// The default reference, Boost only (cpp_bin_float_38 answer, cpp_bin_float_quad check: this
+// program does not define STEPCERT_HAVE_FLOAT128), for 25 digits on Kepler
+// e = 0.5 over [0, 20] at four output times: the true error stays below 10^-vouched.
+TEST(ReferenceVouchedExact, KeplerTrueErrorBelowVouchedDigits) {
+    const auto p = pr::kepler<cpp_bin_float_50>(cpp_bin_float_50("0.5"), cpp_bin_float_50(20));
+    const auto r = stepcert::reference_solution(p, 25, {5.0, 10.0, 15.0, 20.0});
+    ASSERT_EQ(r.states.size(), 4u);
+    EXPECT_EQ(r.requested_digits, 25);
+    EXPECT_GE(r.vouched_digits, 25.0) << r.how;
+    const double err = true_relative_error(r, std::array<cpp_bin_float_50, 4>{}, p.exact());
+    EXPECT_LT(err, std::pow(10.0, -r.vouched_digits))
+        << "true error " << err << " (" << true_digits(err) << " digits), vouched " << r.vouched_digits << "\n" << r.how;
+    EXPECT_GT(r.cost.evaluations, 0u);
+    EXPECT_GT(r.cost.steps, 0u);
+}
+
+// y' = y cos t, y(0) = 1 (Hull et al. 1972 class A3, from memory; exact e^{sin t}, derived),
+// 20 digits on a std::vector state given in double: the right-hand side is generic.
+TEST(ReferenceVouchedExact, OscillatingGrowthOnVectorState) {
+    const auto p = stepcert::make_problem(
+        "y' = y cos t",
+        [](const auto& y, auto& dydt, const auto& t) {
+            using std::cos;
+            dydt[0] = y[0] * cos(t);
+        },
+        std::vector<double>{1.0}, 0.0, 10.0);
+    const auto r = stepcert::reference_solution(p, 20, {2.5, 5.0, 7.5, 10.0});
+    EXPECT_GE(r.vouched_digits, 20.0) << r.how;
+    const auto exact = [](const cpp_bin_float_50& t, std::vector<cpp_bin_float_50>& y) { y[0] = exp(sin(t)); };
+    const double err = true_relative_error(r, std::vector<cpp_bin_float_50>(1), exact);
+    EXPECT_LT(err, std::pow(10.0, -r.vouched_digits)) << "true error " << err << "\n" << r.how;
+}
+
+} // namespace
