@@ -48,7 +48,16 @@ struct odeint_dense_output {
         using controlled = odeint::controlled_runge_kutta<StepperFor<S>>;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
         detail::check_tolerance_reachable(label, y, tol);
+        // As in detail/rk_controller.hpp: the copied default stepper's scratch is written before use.
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wuninitialized"
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#endif
         controlled stepper(typename controlled::error_checker_type(static_cast<T>(tol.atol), static_cast<T>(tol.rtol)));
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic pop
+#endif
         const std::size_t n = state_size(y);
         const T t_end = times.empty() ? t0 : times.back();  // never empty here; keeps -Warray-bounds quiet
         const T resolution = detail::time_resolution(t0, t_end);

@@ -19,7 +19,18 @@ struct rk_controller {
     static auto make(const controller_tolerance& tol) {
         using controlled = boost::numeric::odeint::controlled_runge_kutta<StepperFor<S>>;
         using T = scalar_of<S>;
+        // controlled_runge_kutta copies a default-constructed stepper whose scratch states are not
+        // written yet; for std::array states g++ 12 then warns that they are used uninitialized.
+        // The scratch is always written before it is read.
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wuninitialized"
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#endif
         return controlled(typename controlled::error_checker_type(static_cast<T>(tol.atol), static_cast<T>(tol.rtol)));
+#if defined(__GNUC__) && !defined(__clang__)
+#pragma GCC diagnostic pop
+#endif
     }
 };
 
