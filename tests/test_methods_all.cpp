@@ -65,6 +65,28 @@ TEST(AllMethods, RunWithArrayStates) { run_every_method<std::array<double, 2>>()
 
 TEST(AllMethods, RunWithVectorStates) { run_every_method<std::vector<double>>(); }
 
+// A wrapper rebuilt on another odeint algebra (range_algebra instead of array_algebra for
+// std::array): same method, same results to round-off.
+template <class S>
+using rk4_on_range_algebra = stepcert::odeint_stepper::rk4<S, boost::numeric::odeint::range_algebra>;
+template <class S>
+using controlled_ck_on_range_algebra = stepcert::odeint_stepper::cash_karp54<S, boost::numeric::odeint::range_algebra>;
+
+TEST(AllMethods, WrappersAcceptAnotherOdeintAlgebra) {
+    const auto p = rotation_problem<std::array<double, 2>>();
+    const stepcert::odeint_fixed_step<rk4_on_range_algebra> rk4_range{"classic RK4 (range algebra)", 4};
+    const auto a = stepcert::run_uniform(p, rk4_range, 40);
+    const auto b = stepcert::run_uniform(p, stepcert::classic_rk4, 40);
+    EXPECT_LE(max_distance(a.final_state(), b.final_state()), 4 * eps<double>());
+    EXPECT_EQ(a.stats.evaluations, b.stats.evaluations);
+    const stepcert::odeint_controlled<stepcert::odeint_rk_controller<controlled_ck_on_range_algebra, 5>> ck_range{
+        "Cash-Karp 5(4) adaptive (range algebra)", 5};
+    const auto c = stepcert::run_adaptive(p, ck_range, {1e-9, 1e-9});
+    const auto d = stepcert::run_adaptive(p, stepcert::cash_karp54_adaptive, {1e-9, 1e-9});
+    EXPECT_LE(max_distance(c.final_state(), d.final_state()), 16 * eps<double>());
+    EXPECT_EQ(c.stats.steps, d.stats.steps);
+}
+
 TEST(AllMethods, SatisfyTheirConceptsAndHaveDistinctNames) {
     static_assert(stepcert::fixed_step_method<decltype(stepcert::explicit_euler)>);
     static_assert(stepcert::fixed_step_method<decltype(stepcert::symplectic_rkn)>);

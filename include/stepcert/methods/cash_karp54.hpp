@@ -6,9 +6,9 @@
 
 #include <boost/numeric/odeint/stepper/runge_kutta_cash_karp54.hpp>
 
-#include "stepcert/methods/detail/rk_controller.hpp"
 #include "stepcert/methods/odeint_controlled.hpp"
 #include "stepcert/methods/odeint_fixed_step.hpp"
+#include "stepcert/methods/odeint_rk_controller.hpp"
 
 namespace stepcert {
 namespace odeint_stepper {
@@ -25,7 +25,7 @@ using odeint_cash_karp54_default = odeint_stepper::cash_karp54<S>;
 inline constexpr odeint_fixed_step<detail::odeint_cash_karp54_default> cash_karp54{"Cash-Karp 5(4)", 5};
 
 /// Cash–Karp 5(4) with odeint's step control: order 5; 6 evaluations per accepted step, 5 per rejected one.
-inline constexpr odeint_controlled<detail::rk_controller<detail::odeint_cash_karp54_default, 5>> cash_karp54_adaptive{
+inline constexpr odeint_controlled<odeint_rk_controller<detail::odeint_cash_karp54_default, 5>> cash_karp54_adaptive{
     "Cash-Karp 5(4) adaptive", 5};
 
 } // namespace stepcert

@@ -6,9 +6,9 @@
 
 #include <boost/numeric/odeint/stepper/runge_kutta_fehlberg78.hpp>
 
-#include "stepcert/methods/detail/rk_controller.hpp"
 #include "stepcert/methods/odeint_controlled.hpp"
 #include "stepcert/methods/odeint_fixed_step.hpp"
+#include "stepcert/methods/odeint_rk_controller.hpp"
 
 namespace stepcert {
 namespace odeint_stepper {
@@ -25,7 +25,7 @@ using odeint_fehlberg78_default = odeint_stepper::fehlberg78<S>;
 inline constexpr odeint_fixed_step<detail::odeint_fehlberg78_default> fehlberg78{"Fehlberg 7(8)", 8};
 
 /// Fehlberg 7(8) with odeint's step control: order 8; 13 evaluations per accepted step, 12 per rejected one.
-inline constexpr odeint_controlled<detail::rk_controller<detail::odeint_fehlberg78_default, 8>> fehlberg78_adaptive{
+inline constexpr odeint_controlled<odeint_rk_controller<detail::odeint_fehlberg78_default, 8>> fehlberg78_adaptive{
     "Fehlberg 7(8) adaptive", 8};
 
 } // namespace stepcert

@@ -48,7 +48,7 @@ struct odeint_dense_output {
         using controlled = odeint::controlled_runge_kutta<StepperFor<S>>;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
         detail::check_tolerance_reachable(label, y, tol);
-        // As in detail/rk_controller.hpp: the copied default stepper's scratch is written before use.
+        // As in odeint_rk_controller.hpp: the copied default stepper's scratch is written before use.
 #if defined(__GNUC__) && !defined(__clang__)
 #pragma GCC diagnostic push
 #pragma GCC diagnostic ignored "-Wuninitialized"

@@ -1,6 +1,9 @@
 #pragma once
 // Policy for odeint_controlled: odeint's controlled_runge_kutta around an embedded error stepper,
 // with odeint's default error checker: error_i / (atol + rtol (|y_i| + h |y'_i|)) <= 1.
+// Public so that a controlled method can be rebuilt on another odeint algebra:
+//   template <class S> using ck = stepcert::odeint_stepper::cash_karp54<S, my_algebra>;
+//   stepcert::odeint_controlled<stepcert::odeint_rk_controller<ck, 5>> m{"Cash-Karp (my algebra)", 5};
 #include "stepcert/methods/odeint_types.hpp"
 
 #include <boost/numeric/odeint/stepper/controlled_runge_kutta.hpp>
@@ -8,10 +11,10 @@
 #include "stepcert/core/state.hpp"
 #include "stepcert/methods/method.hpp"
 
-namespace stepcert::detail {
+namespace stepcert {
 
 template <template <class State> class StepperFor, int StartingOrder>
-struct rk_controller {
+struct odeint_rk_controller {
     static constexpr bool variable_order = false;
     static constexpr int starting_order = StartingOrder;
 
@@ -34,4 +37,4 @@ struct rk_controller {
     }
 };
 
-} // namespace stepcert::detail
+} // namespace stepcert
