@@ -1,16 +1,17 @@
 #pragma once
 // The scalar types a reference solution can be computed in, and the default one.
 //
-// default_reference_real was chosen by measurement (bench/bench_reference_cost.cpp, one
-// Arenstorf period, odeint's fixed-order extrapolation stepper of order 20, g++ 12 -O3):
-//   type                      significand   cost per rhs evaluation, stepper included
-//   float128                  113 bits      1.2 us   (round-off floor ~5e-26 on that orbit)
-//   cpp_bin_float_38 (below)  128 bits      2.2 us   (floor ~1e-30)
-//   cpp_bin_float_50          168 bits      3.5 us
-//   mpfr_float_50             168 bits      3.1 us   (needs MPFR)
-// cpp_bin_float_38 is the cheapest Boost-only type whose round-off floor leaves room for 25+
-// digits on a sensitive orbit; float128 is cheaper still but too narrow for the answer, so it
-// serves as the cheap check run (see reference_solution.hpp).
+// default_reference_real was chosen by measurement (bench/bench_reference_cost.cpp: one
+// Arenstorf period, order-20 extrapolation at tolerance 1e-28, g++ 12 -O3, CPU time per
+// right-hand-side evaluation, stepper included, median of 3, on a shared 2-core machine):
+//   float128            113 bits   1.25 us   round-off floor on that orbit ~5e-26 (measured)
+//   cpp_bin_float_quad  113 bits   2.25 us   the same floor, Boost only
+//   cpp_bin_float_38    128 bits   2.33 us   floor ~1e-29 (measured)
+//   mpfr_float_50       168 bits   2.69 us   (expression templates off; needs MPFR)
+//   cpp_bin_float_50    168 bits   3.50 us
+// cpp_bin_float_38 is the cheapest type, Boost only, that carries 25+ digits on that orbit
+// with room to spare; float128 is cheaper but too narrow for the answer, so it serves as the
+// cheap check run when available (see reference_solution.hpp).
 //
 // float128 (GCC's __float128 through Boost) is used only when the build defines
 // STEPCERT_HAVE_FLOAT128 and links libquadmath; it needs GCC in GNU mode (CMake's default
