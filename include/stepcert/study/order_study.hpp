@@ -15,6 +15,9 @@
 // reference's own uncertainty |y| * 10^-digits. Measured with classic RK4 on Kepler e = 0.5, the
 // plateau sits 5-60x above sqrt(N) eps |y|, while N eps |y| would already discard levels on the
 // clean slope, so the floor is a backstop and the plateau is mostly detected by its local orders.
+// Not in the floor: the rounding of output times (about |y'| ulp(t)), e.g. 4e-14 on that orbit.
+// Ceiling (range_settings::max_relative_error): errors above 10% of the solution's size (of y0
+// and the reference on the grid) leave no correct digit and count as pre-asymptotic.
 #include <algorithm>
 #include <cmath>
 #include <cstddef>
@@ -31,6 +34,7 @@
 #include "stepcert/core/norm.hpp"
 #include "stepcert/core/problem.hpp"
 #include "stepcert/methods/method.hpp"
+#include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/study/asymptotic_range.hpp"
 #include "stepcert/study/ladder.hpp"
@@ -38,12 +42,6 @@
 #include "stepcert/study/richardson.hpp"
 #include "stepcert/study/study_result.hpp"
 
-#if __has_include("stepcert/reference/reference_solution.hpp")
-#include "stepcert/reference/reference_solution.hpp"
-#define STEPCERT_STUDY_HAS_REFERENCE 1
-#else
-#define STEPCERT_STUDY_HAS_REFERENCE 0
-#endif
 
 namespace stepcert {
 
@@ -240,7 +238,7 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
         if constexpr (P::has_exact)
             basis = error_basis::exact_solution;
         else
-            basis = STEPCERT_STUDY_HAS_REFERENCE ? error_basis::reference_solution : error_basis::successive_differences;
+            basis = error_basis::reference_solution;
     }
     if (basis == error_basis::exact_solution && !P::has_exact)
         throw unsupported_operation("stepcert::order_study: error_basis::exact_solution was asked for, but problem '" + p.name() +
@@ -273,7 +271,6 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
                                                      [&](std::size_t j) -> const SX& { return exact_states[j - 1]; });
         }
     } else if (basis == error_basis::reference_solution) {
-#if STEPCERT_STUDY_HAS_REFERENCE
         if constexpr (!P::has_exact) {
             const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
             reference_options ro;
@@ -301,10 +298,6 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
                 fallback_note = std::string(" (no reference solution: ") + e.what() + ")";
             }
         }
-#else
-        throw unsupported_operation("stepcert::order_study: error_basis::reference_solution needs stepcert/reference/reference_solution.hpp, "
-                                    "which this installation lacks; use an exact solution or error_basis::successive_differences.");
-#endif
     }
     if (basis == error_basis::successive_differences) {
         res.basis_detail = "no reference: the error columns hold differences |y_k - y_(k-1)| of successive levels "
