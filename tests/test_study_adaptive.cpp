@@ -7,51 +7,17 @@
 #include <gtest/gtest.h>
 
 #include "stepcert/methods/dormand_prince54.hpp"
+#include "stepcert/problems/kepler.hpp"
 #include "stepcert/study/order_study.hpp"
 
 namespace {
-
-// Kepler e = 0.5 on [0, 20], exact solution from Kepler's equation (Hull, Enright, Fellen,
-// Sedgwick, SIAM J. Numer. Anal. 9 (1972), class D; partly from memory).
-struct kepler_rhs {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using std::sqrt;
-        const auto r2 = y[0] * y[0] + y[1] * y[1];
-        const auto r3 = r2 * sqrt(r2);
-        dydt[0] = y[2];
-        dydt[1] = y[3];
-        dydt[2] = -y[0] / r3;
-        dydt[3] = -y[1] / r3;
-    }
-};
-struct kepler_exact {
-    template <class T, class S>
-    void operator()(T t, S& y) const {
-        using std::abs;
-        using std::cos;
-        using std::sin;
-        using std::sqrt;
-        const T e = T(1) / 2;
-        T E = t;
-        for (int i = 0; i < 100; ++i) {
-            const T dE = (E - e * sin(E) - t) / (1 - e * cos(E));
-            E -= dE;
-            if (abs(dE) <= 8 * std::numeric_limits<T>::epsilon()) break;
-        }
-        const T b = sqrt(1 - e * e), Ed = 1 / (1 - e * cos(E));
-        y[0] = cos(E) - e;
-        y[1] = b * sin(E);
-        y[2] = -sin(E) * Ed;
-        y[3] = b * cos(E) * Ed;
-    }
-};
-
+// Kepler e = 0.5 on [0, 20] from the problem catalogue (Hull, Enright, Fellen, Sedgwick,
+// SIAM J. Numer. Anal. 9 (1972), class D; exact solution from Kepler's equation).
+auto kepler_half() { return stepcert::problems::kepler(0.5); }
 } // namespace
 
 TEST(AdaptiveStudy, DormandPrinceOrderAgainstEffectiveStep) {
-    const auto p = stepcert::make_problem("kepler e=0.5", kepler_rhs{}, std::array<double, 4>{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0)
-                       .with_exact(kepler_exact{});
+    const auto p = kepler_half();
     stepcert::study_options o;
     o.adaptive_grid_points = 20;
     const stepcert::tolerance_ladder ladder{1e-4, 10.0, 9};
@@ -78,8 +44,7 @@ TEST(AdaptiveStudy, DormandPrinceOrderAgainstEffectiveStep) {
 
 TEST(AdaptiveStudy, WrongLadderKindDoesNotCompileButBadToleranceLadderThrows) {
     // (A fixed-step method with a tolerance_ladder is a static_assert; only runtime input is tested.)
-    const auto p = stepcert::make_problem("kepler e=0.5", kepler_rhs{}, std::array<double, 4>{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0)
-                       .with_exact(kepler_exact{});
+    const auto p = kepler_half();
     EXPECT_THROW((void)stepcert::order_study(p, stepcert::dormand_prince54_adaptive, stepcert::tolerance_ladder{1e-4, 0.5, 5}),
                  stepcert::invalid_input);
     EXPECT_THROW((void)stepcert::order_study(p, stepcert::dormand_prince54_adaptive, stepcert::tolerance_ladder{1e-4, 10.0, 2}),

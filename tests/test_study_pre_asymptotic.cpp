@@ -8,28 +8,14 @@
 #include <gtest/gtest.h>
 
 #include "stepcert/methods/classic_rk4.hpp"
+#include "stepcert/problems/prothero_robinson.hpp"
 #include "stepcert/study/order_study.hpp"
 
 namespace {
 
-// Prothero–Robinson problem y' = lambda (y - sin t) + cos t, y(0) = 0, exact y = sin t
-// (A. Prothero, A. Robinson, Math. Comp. 28 (1974) 145-162; from memory).
-struct pr_rhs {
-    double lambda;
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T t) const {
-        using std::cos;
-        using std::sin;
-        dydt[0] = static_cast<T>(lambda) * (y[0] - sin(t)) + cos(t);
-    }
-};
-auto prothero_robinson(double lambda) {
-    return stepcert::make_problem("prothero-robinson", pr_rhs{lambda}, std::array<double, 1>{0.0}, 0.0, 2.0)
-        .with_exact([](auto t, auto& y) {
-            using std::sin;
-            y[0] = sin(t);
-        });
-}
+// Prothero–Robinson problem y' = lambda (y - sin t) + cos t, y(0) = 0, exact y = sin t, on [0, 2],
+// from the problem catalogue (A. Prothero, A. Robinson, Math. Comp. 28 (1974) 145-162; from memory).
+auto prothero_robinson(double lambda) { return stepcert::problems::prothero_robinson(lambda, 2.0); }
 
 // Classic RK4's real stability interval is [-2.785293563405281624, 0] (derived; shared reference
 // values section 6; J. D. Lambert 1991, section 5.12, gives 2.78, from memory).

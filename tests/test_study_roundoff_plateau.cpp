@@ -10,51 +10,15 @@
 
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
+#include "stepcert/problems/kepler.hpp"
 #include "stepcert/study/order_study.hpp"
 
 namespace {
 
-// Kepler two-body problem, eccentricity e = 0.5, on [0, 20]; exact solution from Kepler's equation
-// E - e sin E = t: x = cos E - e, y = sqrt(1 - e^2) sin E, velocities by differentiation.
-// Source: Hull, Enright, Fellen, Sedgwick, SIAM J. Numer. Anal. 9 (1972) 603-637, problem class D
-// (definitions partly from memory; see shared reference values section 2).
-struct kepler_rhs {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using std::sqrt;
-        const auto r2 = y[0] * y[0] + y[1] * y[1];
-        const auto r3 = r2 * sqrt(r2);
-        dydt[0] = y[2];
-        dydt[1] = y[3];
-        dydt[2] = -y[0] / r3;
-        dydt[3] = -y[1] / r3;
-    }
-};
-struct kepler_exact {
-    template <class T, class S>
-    void operator()(T t, S& y) const {
-        using std::abs;
-        using std::cos;
-        using std::sin;
-        using std::sqrt;
-        const T e = T(1) / 2;
-        T E = t;
-        for (int i = 0; i < 100; ++i) {  // Newton on Kepler's equation, converges in a few steps
-            const T dE = (E - e * sin(E) - t) / (1 - e * cos(E));
-            E -= dE;
-            if (abs(dE) <= 8 * std::numeric_limits<T>::epsilon()) break;
-        }
-        const T b = sqrt(1 - e * e), Ed = 1 / (1 - e * cos(E));
-        y[0] = cos(E) - e;
-        y[1] = b * sin(E);
-        y[2] = -sin(E) * Ed;
-        y[3] = b * cos(E) * Ed;
-    }
-};
-auto kepler_half() {
-    return stepcert::make_problem("kepler e=0.5", kepler_rhs{}, std::array<double, 4>{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0)
-        .with_exact(kepler_exact{});
-}
+// Kepler two-body problem, e = 0.5, on [0, 20] from the problem catalogue (Hull, Enright,
+// Fellen, Sedgwick, SIAM J. Numer. Anal. 9 (1972) 603-637, class D; exact solution from Kepler's
+// equation, generic in the scalar type, so the study evaluates it with 50 digits).
+auto kepler_half() { return stepcert::problems::kepler(0.5); }
 
 // Least-squares order over every level with a finite error: what a naive "fit all" would report.
 double naive_order(const stepcert::order_study_result& r) {
@@ -73,7 +37,7 @@ TEST(RoundOffPlateau, ExactSolutionCheckValue) {
     // Derived check value (shared reference values section 2): e = 0.5, t = 20:
     // x = -0.578043295303536, y = 0.863384000919419. Guards the test problem itself.
     std::array<double, 4> y{};
-    kepler_exact{}(20.0, y);
+    kepler_half().exact()(20.0, y);
     EXPECT_NEAR(y[0], -0.578043295303536, 1e-14);
     EXPECT_NEAR(y[1], 0.863384000919419, 1e-14);
 }
