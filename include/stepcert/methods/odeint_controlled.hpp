@@ -1,10 +1,11 @@
 #pragma once
 // Generic adaptive method over an odeint controlled stepper (try_step). The loop is odeint's
 // integrate_times for controlled steppers: a step that would pass an output time is cut to end
-// on it, and after an accepted step the larger of the old and the proposed step size is kept. Differences, all on purpose:
-// f(t, y) is evaluated once per accepted point and reused by rejected attempts (odeint
-// re-evaluates it), accepted and rejected steps are counted, every loop is bounded (step-size
-// guard, plus the driver's evaluation budget), and a NaN state stops the run with a message.
+// on it, and after an accepted step the larger of the old and the proposed step size is kept,
+// so the accepted steps match odeint's step for step. Differences, all on purpose: f(t, y) is
+// evaluated once per accepted point and reused by rejected attempts (odeint re-evaluates it),
+// accepted and rejected steps are counted, every loop is bounded (step-size guard, plus the
+// driver's evaluation budget), and a NaN state stops the run with a message.
 #include <algorithm>
 #include <cstddef>
 #include <string_view>
