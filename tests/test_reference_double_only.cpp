@@ -41,7 +41,7 @@ static_assert(!decltype(kepler_problem())::rhs_accepts<stepcert::default_referen
 // The general pericenter formula reproduces the class D check values for e = 0.5, t = 20:
 // x = -0.578043295303536, y = 0.863384000919419 (derived by us from the exact solution,
 // reference-values §2).
-TEST(ReferenceDoubleOnly, ExactSolutionHelperMatchesCheckValues) {
+TEST(ReferenceSolutionDoubleOnly, ExactSolutionHelperMatchesCheckValues) {
     const reference_test::kepler_from_pericenter exact_e05{cpp_bin_float_50("0.5"), sqrt(cpp_bin_float_50(3))};
     std::array<cpp_bin_float_50, 4> y{};
     exact_e05(cpp_bin_float_50(20), y);
@@ -49,7 +49,7 @@ TEST(ReferenceDoubleOnly, ExactSolutionHelperMatchesCheckValues) {
     EXPECT_NEAR(static_cast<double>(y[1]), 0.863384000919419, 1e-15);
 }
 
-TEST(ReferenceDoubleOnly, FewerDigitsVouchedAndSaidWhy) {
+TEST(ReferenceSolutionDoubleOnly, FewerDigitsVouchedAndSaidWhy) {
     const auto p = kepler_problem();
     const auto r = stepcert::reference_solution(p, 25, {10.0, 20.0});
     EXPECT_EQ(r.requested_digits, 25);
@@ -65,14 +65,14 @@ TEST(ReferenceDoubleOnly, FewerDigitsVouchedAndSaidWhy) {
         << "true error " << err << " (" << true_digits(err) << " digits)\n" << r.how;
 }
 
-TEST(ReferenceDoubleOnly, FewDigitsAskedAreVouched) {
+TEST(ReferenceSolutionDoubleOnly, FewDigitsAskedAreVouched) {
     const auto r = stepcert::reference_solution(kepler_problem(), 8);
     EXPECT_TRUE(r.vouches_requested()) << r.how;
     const double err = true_relative_error(r, std::array<cpp_bin_float_50, 4>{}, exact);
     EXPECT_LT(err, std::pow(10.0, -r.vouched_digits)) << r.how;
 }
 
-TEST(ReferenceDoubleOnly, StrictOptionRefusesFewerDigits) {
+TEST(ReferenceSolutionDoubleOnly, StrictOptionRefusesFewerDigits) {
     stepcert::reference_options strict;
     strict.allow_fewer_digits_if_double_only = false;
     EXPECT_THROW(stepcert::reference_solution(kepler_problem(), 25, {}, strict), stepcert::accuracy_unreachable);
@@ -80,7 +80,7 @@ TEST(ReferenceDoubleOnly, StrictOptionRefusesFewerDigits) {
 
 // A right-hand side generic in the state but with a double time parameter accepts long double
 // (the time converts implicitly) but not a multiprecision type: the reference runs in long double.
-TEST(ReferenceDoubleOnly, LongDoubleWhenTheRightHandSideTakesIt) {
+TEST(ReferenceSolutionDoubleOnly, LongDoubleWhenTheRightHandSideTakesIt) {
     const auto p = stepcert::make_problem(
         "kepler, generic state, double time",
         [](const auto& y, auto& dydt, double) {
