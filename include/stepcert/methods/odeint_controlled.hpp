@@ -7,6 +7,7 @@
 // accepted and rejected steps are counted, every loop is bounded (step-size guard, plus the
 // driver's evaluation budget), and a NaN state stops the run with a message.
 #include <algorithm>
+#include <utility>
 #include <cstddef>
 #include <string_view>
 #include <vector>
@@ -51,6 +52,7 @@ struct odeint_controlled {
         const T t_end = times.empty() ? t0 : times.back();  // never empty here; keeps -Warray-bounds quiet
         const T resolution = detail::time_resolution(t0, t_end);
         S dxdt = state_traits<S>::make(state_size(y));
+        S y_new = state_traits<S>::make(state_size(y));
         rhs(static_cast<const S&>(y), dxdt, t0);
         detail::require_finite_derivative(label, dxdt, t0);
         T dt = initial_step > 0.0 ? min(static_cast<T>(initial_step), t_end - t0)
@@ -65,11 +67,18 @@ struct odeint_controlled {
                 const T t_before = t;
                 if (!dxdt_current) rhs(static_cast<const S&>(y), dxdt, t);
                 dxdt_current = true;
-                if (stepper.try_step(rhs, y, dxdt, t, try_dt) == odeint::success) {
+                const T attempted = try_dt;
+                if (stepper.try_step(rhs, y, dxdt, t, y_new, try_dt) == odeint::success) {
+                    if (!all_finite(y_new)) {  // odeint accepted a NaN error estimate: retry shorter
+                        t = t_before;
+                        dt = attempted;
+                        detail::reject_non_finite_step(label, dt, t, resolution, stats);
+                        continue;
+                    }
+                    std::swap(y, y_new);
                     ++stats.steps;
                     dxdt_current = false;
                     if (lands) t = target;
-                    detail::require_finite_step(label, y, t_before, t);
                     // As odeint's integrate_times: never below the step before, so a step cut
                     // short by an output time does not shrink the next one.
                     dt = max(dt, try_dt);

@@ -75,15 +75,20 @@ struct odeint_dense_output {
             const bool lands = !(t + try_dt < t_end - resolution);
             if (lands) try_dt = t_end - t;
             T t_new = t;
+            const T attempted = try_dt;
             if (stepper.try_step(rhs, x0, d0, t_new, x1, d1, try_dt) != odeint::success) {
                 ++stats.rejected;
                 dt = try_dt;
                 detail::guard_step_size(label, dt, t, resolution);
                 continue;
             }
+            if (!all_finite(x1)) {  // odeint accepted a NaN error estimate: retry shorter
+                dt = attempted;
+                detail::reject_non_finite_step(label, dt, t, resolution, stats);
+                continue;
+            }
             ++stats.steps;
             if (lands) t_new = t_end;
-            detail::require_finite_step(label, x1, t, t_new);
             for (; next < times.size() && !(t_new < times[next]); ++next) {
                 if (times[next] == t_new) {
                     obs(static_cast<const S&>(x1), t_new);

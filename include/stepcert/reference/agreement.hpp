@@ -2,11 +2,14 @@
 // How many significant digits two runs agree on: the measure behind vouched_digits.
 //
 // For answer states a_i and check states c_i at the same output times t_i,
-//   r = max_i ||a_i - c_i||_inf / max(||a_i||_inf, tiny),     tiny = smallest normal double,
+//   r = max_i ||a_i - c_i||_inf / max(||a_i||_inf, floor),
 //   digits = -log10(kappa * r), capped at the digits the answer's type carries.
 // So "d digits" means: at every output time, every component's error is at most 10^-d times
 // the largest component of the state at that time (a relative measure per time, absolute
-// per component). kappa >= 1 is a safety factor chosen by the caller (reference_solution.hpp
+// per component), or times `floor` where the state is smaller than that. reference_solution
+// sets floor to 1e-3 of the solution's size over the interval (the same level where its
+// controller switches from relative to absolute control): without it, a state at rest before
+// an input arrives (size 1e-17, say) would demand relative digits nobody needs. kappa >= 1 is a safety factor chosen by the caller (reference_solution.hpp
 // explains when it is 1 and when 3).
 #include <algorithm>
 #include <cmath>
@@ -29,13 +32,14 @@ struct run_agreement {
 
 /// Compares two runs state by state in the answer's scalar type (no rounding to double first).
 template <state S>
-run_agreement compare_runs(const std::vector<S>& answer, const std::vector<S>& check) {
+run_agreement compare_runs(const std::vector<S>& answer, const std::vector<S>& check,
+                           double floor = std::numeric_limits<double>::min()) {
     if (answer.size() != check.size())
         throw invalid_input("stepcert::compare_runs: the runs have " + std::to_string(answer.size()) + " and " +
                             std::to_string(check.size()) + " output states; compare runs on the same output times.");
     using T = scalar_of<S>;
     using std::abs;
-    const T tiny = static_cast<T>(std::numeric_limits<double>::min());
+    const T tiny = static_cast<T>(std::max(floor, std::numeric_limits<double>::min()));
     run_agreement out;
     for (std::size_t i = 0; i < answer.size(); ++i) {
         const std::size_t n = state_size(answer[i]);

@@ -48,6 +48,7 @@
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/problem.hpp"
 #include "stepcert/core/state.hpp"
+#include "stepcert/methods/dormand_prince54.hpp"
 #include "stepcert/reference/agreement.hpp"
 #include "stepcert/reference/extrapolation_method.hpp"
 #include "stepcert/reference/multiprecision_types.hpp"
@@ -126,12 +127,34 @@ public:
         }
         with_t0_ = times_.front() == t0;
         run_times_.assign(times_.begin() + (with_t0_ ? 1 : 0), times_.end());
+        // Absolute part of the controller tolerance: relative control down to 1e-3 of the
+        // solution's size. A state that starts at rest (y0 = 0) has no size at t0, and pure
+        // relative control of a zero component divides by zero, so the size is taken over the
+        // whole interval from a cheap pilot run in double.
+        atol_factor_ = 1e-3 * solution_scale();
+    }
+
+    /// max |y_i(t)| over y0 and a pilot run; 1 if all of it is zero or the pilot fails.
+    double solution_scale() {
         using std::abs;
-        double y0_scale = 0.0;
-        for (std::size_t k = 0; k < p.dimension(); ++k)
-            y0_scale = std::max(y0_scale, static_cast<double>(abs(p.y0()[k])));
-        // Absolute part of the controller tolerance: relative control down to 1e-3 of |y0|.
-        atol_factor_ = std::max(1e-3 * y0_scale, std::numeric_limits<double>::min());
+        double scale = 0.0;
+        for (std::size_t k = 0; k < p_.dimension(); ++k) scale = std::max(scale, static_cast<double>(abs(p_.y0()[k])));
+        if constexpr (P::template rhs_accepts<double>) {
+            try {
+                std::vector<double> grid;
+                const double a = static_cast<double>(p_.t0()), b = static_cast<double>(p_.t1());
+                for (int j = 1; j <= 64; ++j) grid.push_back(j == 64 ? b : a + (b - a) * j / 64.0);
+                const auto pilot = run_adaptive<double>(p_, dormand_prince54_adaptive, controller_tolerance{1e-8 * std::max(scale, 1e-12), 1e-8},
+                                                        grid, run_options{std::min<std::size_t>(opt_.max_evaluations / 4 + 1, 1'000'000)});
+                used_ += pilot.stats.evaluations;  // the pilot is part of the reference's cost
+                cost_.evaluations += pilot.stats.evaluations;
+                for (const auto& y : pilot.states)
+                    for (std::size_t k = 0; k < p_.dimension(); ++k) scale = std::max(scale, std::abs(static_cast<double>(y[k])));
+            } catch (const error&) {
+                // The pilot only sizes the tolerance; the reference runs below report real failures.
+            }
+        }
+        return scale > std::numeric_limits<double>::min() ? scale : 1.0;
     }
 
     result_type build() {
@@ -190,7 +213,7 @@ private:
 
     /// Largest relative difference between two runs, logged.
     double difference(const run_record& a, const run_record& b) {
-        const run_agreement g = compare_runs(a.states, b.states);
+        const run_agreement g = compare_runs(a.states, b.states, atol_factor_);
         log_ += " [difference " + sci(g.largest_relative_difference) + " at t = " +
                 time_text(run_times_[g.worst_index]) + "]";
         return g.largest_relative_difference;

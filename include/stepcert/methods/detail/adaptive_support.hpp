@@ -92,14 +92,19 @@ void guard_step_size(std::string_view method, const T& dt, const T& t, const T& 
                                    "tolerance, use a wider scalar type, or shorten the interval.");
 }
 
-/// Called after every accepted step: odeint's controllers accept a NaN error estimate.
-template <class S, class T>
-void require_finite_step(std::string_view method, const S& y, const T& t_from, const T& t_to) {
-    if (!all_finite(y))
-        throw non_finite_value(adaptive_who(method) + "the solution became NaN or infinite between t = " +
-                               number_text(t_from) + " and t = " + number_text(t_to) +
-                               " (the right-hand side returned a non-finite value, or the solution blows up); "
-                               "check the right-hand side there.");
+/// A trial step that the controller accepted although its state is not finite: odeint's error
+/// checkers let a NaN error estimate through (NaN > 1 is false). The step was too long (an
+/// overflow in a stage) or the right-hand side is broken there: it counts as rejected and is
+/// retried at a quarter of the length; only a step shrunk below the time resolution ends the
+/// run, as a non-finite value with the time.
+template <class T>
+void reject_non_finite_step(std::string_view method, T& dt, const T& t, const T& resolution, run_stats& stats) {
+    ++stats.rejected;
+    dt = dt / T(4);
+    if (!(dt > resolution))
+        throw non_finite_value(adaptive_who(method) + "every trial step from t = " + number_text(t) +
+                               " down to the time resolution gave a NaN or infinite state (the right-hand side returns a "
+                               "non-finite value there, or the solution blows up); check the right-hand side near that time.");
 }
 
 /// f(t0, y0) must be finite before any step size is chosen from it.
