@@ -176,6 +176,22 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     res.norm = opt.norm;
     res.levels.resize(L);
 
+    // The basis, settled before any run so a wrong choice costs nothing.
+    error_basis basis = opt.basis;
+    if (basis == error_basis::automatic) {
+        if constexpr (P::has_exact)
+            basis = error_basis::exact_solution;
+        else
+            basis = error_basis::reference_solution;
+    }
+    if (basis == error_basis::exact_solution && !P::has_exact)
+        throw unsupported_operation("stepcert::order_study: error_basis::exact_solution was asked for, but problem '" + p.name() +
+                                    "' has no exact solution; attach one with .with_exact(...) or use another basis.");
+    if (basis == error_basis::reference_solution && P::has_exact)
+        throw unsupported_operation("stepcert::order_study: problem '" + p.name() + "' has an exact solution, so no reference "
+                                    "solution is computed for it (that keeps multiprecision integrators out of such studies); "
+                                    "use error_basis::exact_solution, or build the problem without .with_exact(...).");
+
     // Output grid common to all levels. Every basis compares at these nominal times; a run's
     // own output time differs from them by rounding only (about one ulp of t).
     std::vector<std::size_t> steps_of;
@@ -233,21 +249,6 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     res.total_evaluations = spent;
 
     // Errors per level against the chosen basis.
-    error_basis basis = opt.basis;
-    if (basis == error_basis::automatic) {
-        if constexpr (P::has_exact)
-            basis = error_basis::exact_solution;
-        else
-            basis = error_basis::reference_solution;
-    }
-    if (basis == error_basis::exact_solution && !P::has_exact)
-        throw unsupported_operation("stepcert::order_study: error_basis::exact_solution was asked for, but problem '" + p.name() +
-                                    "' has no exact solution; attach one with .with_exact(...) or use another basis.");
-    if (basis == error_basis::reference_solution && P::has_exact)
-        throw unsupported_operation("stepcert::order_study: problem '" + p.name() + "' has an exact solution, so no reference "
-                                    "solution is computed for it (that keeps multiprecision integrators out of such studies); "
-                                    "use error_basis::exact_solution, or build the problem without .with_exact(...).");
-
     const Tr eps = std::numeric_limits<Tr>::epsilon();
     std::vector<detail::grid_errors> errs(L);
     double ref_rel = 0.0;  // the reference's own relative uncertainty
