@@ -127,11 +127,16 @@ public:
         }
         with_t0_ = times_.front() == t0;
         run_times_.assign(times_.begin() + (with_t0_ ? 1 : 0), times_.end());
-        // Absolute part of the controller tolerance: relative control down to 1e-3 of the
-        // solution's size. A state that starts at rest (y0 = 0) has no size at t0, and pure
-        // relative control of a zero component divides by zero, so the size is taken over the
-        // whole interval from a cheap pilot run in double.
-        atol_factor_ = 1e-3 * solution_scale();
+    }
+
+    /// Absolute part of the controller tolerance (per unit of tolerance): relative control down
+    /// to 1e-3 of the solution's size. A state that starts at rest (y0 = 0) has no size at t0,
+    /// and pure relative control of a zero component divides by zero, so the size is taken over
+    /// the whole interval from a cheap pilot run in double, made on first use (after the input
+    /// checks, so a refused request costs no evaluation).
+    double atol_factor() {
+        if (!(atol_factor_ > 0.0)) atol_factor_ = 1e-3 * solution_scale();
+        return atol_factor_;
     }
 
     /// max |y_i(t)| over y0 and a pilot run; 1 if all of it is zero or the pilot fails.
@@ -185,11 +190,12 @@ private:
         std::vector<K> tk;
         tk.reserve(run_times_.size());
         for (const time_type& t : run_times_) tk.push_back(static_cast<K>(t));
+        const double atol_per_tol = atol_factor();  // may run the pilot: before the budget is read
         if (used_ >= opt_.max_evaluations) throw out_of_budget(role);
         const auto& m = reference_method_for<K>();
         trajectory<k_state> tr;
         try {
-            tr = run_adaptive<K>(p_, m, controller_tolerance{tol * atol_factor_, tol}, std::move(tk),
+            tr = run_adaptive<K>(p_, m, controller_tolerance{tol * atol_per_tol, tol}, std::move(tk),
                                  run_options{opt_.max_evaluations - used_});
         } catch (const budget_exhausted&) {
             used_ = opt_.max_evaluations;
@@ -213,7 +219,7 @@ private:
 
     /// Largest relative difference between two runs, logged.
     double difference(const run_record& a, const run_record& b) {
-        const run_agreement g = compare_runs(a.states, b.states, atol_factor_);
+        const run_agreement g = compare_runs(a.states, b.states, atol_factor());
         log_ += " [difference " + sci(g.largest_relative_difference) + " at t = " +
                 time_text(run_times_[g.worst_index]) + "]";
         return g.largest_relative_difference;
@@ -416,7 +422,7 @@ private:
     reference_options opt_;
     std::vector<time_type> times_, run_times_;
     bool with_t0_ = false;
-    double atol_factor_ = 1.0;
+    double atol_factor_ = 0.0;  ///< set by atol_factor() on first use
     std::size_t used_ = 0;
     std::string who_;
     run_stats cost_;
