@@ -57,66 +57,47 @@ double agreement(const S& a, const S& b) {
                                       1.0, 50.0);
 }
 
-// The plain way: controlled Bulirsch–Stoer at 10^-a and 10^-(a+2) in cpp_bin_float_50.
-void plain_way_controlled(benchmark::State& state) {
+// The plain way: two Bulirsch–Stoer runs in cpp_bin_float_50 at 10^-a and 10^-(a+2), with
+// odeint's controlled (bulirsch_stoer) or dense-output (bulirsch_stoer_dense_out) stepper.
+using plain_real = cpp_bin_float_50;
+using plain_state = std::array<plain_real, 4>;
+
+template <class Stepper>
+void plain_way(benchmark::State& state) {
+    using T = plain_real;
     const double loose = std::pow(10.0, -static_cast<double>(state.range(0)));
     std::size_t evaluations = 0;
     double digits = 0;
     for (auto _ : state) {
         evaluations = 0;
-        using T = cpp_bin_float_50;
-        using S = std::array<T, 4>;
-        const auto a = odeint_period<T>(odeint::bulirsch_stoer<S, T>(T(loose), T(loose)), evaluations);
-        const auto b = odeint_period<T>(odeint::bulirsch_stoer<S, T>(T(loose / 100), T(loose / 100)), evaluations);
+        const auto a = odeint_period<T>(Stepper(T(loose), T(loose)), evaluations);
+        const auto b = odeint_period<T>(Stepper(T(loose / 100), T(loose / 100)), evaluations);
         digits = agreement(b, a);
         benchmark::DoNotOptimize(digits);
     }
     state.counters["vouched_digits"] = digits;
     state.counters["evaluations"] = static_cast<double>(evaluations);
 }
+void plain_way_controlled(benchmark::State& state) { plain_way<odeint::bulirsch_stoer<plain_state, plain_real>>(state); }
+void plain_way_dense(benchmark::State& state) { plain_way<odeint::bulirsch_stoer_dense_out<plain_state, plain_real>>(state); }
 
-// The same with odeint's dense-output Bulirsch–Stoer.
-void plain_way_dense(benchmark::State& state) {
-    const double loose = std::pow(10.0, -static_cast<double>(state.range(0)));
-    std::size_t evaluations = 0;
-    double digits = 0;
-    for (auto _ : state) {
-        evaluations = 0;
-        using T = cpp_bin_float_50;
-        using S = std::array<T, 4>;
-        const auto a = odeint_period<T>(odeint::bulirsch_stoer_dense_out<S, T>(T(loose), T(loose)), evaluations);
-        const auto b = odeint_period<T>(odeint::bulirsch_stoer_dense_out<S, T>(T(loose / 100), T(loose / 100)), evaluations);
-        digits = agreement(b, a);
-        benchmark::DoNotOptimize(digits);
-    }
-    state.counters["vouched_digits"] = digits;
-    state.counters["evaluations"] = static_cast<double>(evaluations);
-}
-
-// stepcert's reference for the given digits (default type).
-void stepcert_reference(benchmark::State& state) {
+// stepcert's reference for the given digits; Checks as reference_solution takes them.
+template <class Checks>
+void reference_with(benchmark::State& state) {
     const int digits = static_cast<int>(state.range(0));
     stepcert::reference_result<std::array<stepcert::default_reference_real, 4>> r;
     for (auto _ : state) {
-        r = stepcert::reference_solution(orbit(), digits);
+        r = stepcert::reference_solution<stepcert::default_reference_real, Checks>(orbit(), digits);
         benchmark::DoNotOptimize(r.states);
     }
     state.counters["vouched_digits"] = r.vouched_digits;
     state.counters["evaluations"] = static_cast<double>(r.cost.evaluations);
 }
-
-// The same, Boost only: the check in cpp_bin_float_quad instead of float128.
+// The default check types (float128 first where STEPCERT_HAVE_FLOAT128 is defined).
+void stepcert_reference(benchmark::State& state) { reference_with<stepcert::reference_check_types>(state); }
+// Boost only: the check in cpp_bin_float_quad instead of float128.
 void stepcert_reference_boost_only(benchmark::State& state) {
-    using checks = stepcert::type_list<long double, stepcert::cpp_bin_float_quad, stepcert::cpp_bin_float_38,
-                                       stepcert::cpp_bin_float_50>;
-    const int digits = static_cast<int>(state.range(0));
-    stepcert::reference_result<std::array<stepcert::default_reference_real, 4>> r;
-    for (auto _ : state) {
-        r = stepcert::reference_solution<stepcert::default_reference_real, checks>(orbit(), digits);
-        benchmark::DoNotOptimize(r.states);
-    }
-    state.counters["vouched_digits"] = r.vouched_digits;
-    state.counters["evaluations"] = static_cast<double>(r.cost.evaluations);
+    reference_with<stepcert::type_list<long double, stepcert::cpp_bin_float_quad, stepcert::cpp_bin_float_38, stepcert::cpp_bin_float_50>>(state);
 }
 
 // Cost per evaluation, stepper included, of one run of `method` in T at tolerance 10^-a.

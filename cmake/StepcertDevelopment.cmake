@@ -10,9 +10,8 @@ find_library(STEPCERT_GMP_LIB gmp)
 
 # stepcert_dev: warnings, sanitizers and the optional multiprecision back ends.
 add_library(stepcert_dev INTERFACE)
-target_link_libraries(stepcert_dev INTERFACE stepcert::stepcert nlohmann_json::nlohmann_json Eigen3::Eigen quadmath)
-# float128 (GCC's __float128 via libquadmath) is the cheap check type of reference solutions.
-target_compile_definitions(stepcert_dev INTERFACE STEPCERT_HAVE_FLOAT128=1)
+# The project's own builds use float128 (GCC), the cheap check type of reference solutions.
+target_link_libraries(stepcert_dev INTERFACE stepcert::stepcert stepcert::float128 nlohmann_json::nlohmann_json Eigen3::Eigen)
 target_compile_options(stepcert_dev INTERFACE -Wall -Wextra -Wpedantic
     $<$<BOOL:${STEPCERT_WARNINGS_AS_ERRORS}>:-Werror>)
 if(STEPCERT_MPFR_INCLUDE AND STEPCERT_MPFR_LIB AND STEPCERT_GMP_LIB)

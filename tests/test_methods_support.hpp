@@ -15,6 +15,7 @@
 
 #include "stepcert/core/problem.hpp"
 #include "stepcert/core/state.hpp"
+#include "stepcert/problems/kepler.hpp"
 #include "stepcert/run/run.hpp"
 
 namespace methods_test {
@@ -104,15 +105,7 @@ inline auto rigid_body_problem(double t1 = 4.0) {
 // derived by differentiation; E by Newton's method in the run's scalar type.
 // For double runs only: y0 holds sqrt(3) rounded to double.
 inline auto kepler_problem(double t1 = 3.0) {
-    auto rhs = [](const auto& y, auto& dydt, auto) {
-        using std::sqrt;
-        const auto r2 = y[0] * y[0] + y[1] * y[1];
-        const auto r3 = r2 * sqrt(r2);
-        dydt[0] = y[2];
-        dydt[1] = y[3];
-        dydt[2] = -y[0] / r3;
-        dydt[3] = -y[1] / r3;
-    };
+    const stepcert::problems::kepler_rhs rhs{};
     auto exact = [](auto t, auto& y) {
         using T = decltype(t);
         using std::abs;

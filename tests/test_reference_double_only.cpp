@@ -9,6 +9,7 @@
 
 #include <gtest/gtest.h>
 
+#include "stepcert/problems/kepler.hpp"
 #include "test_reference_support.hpp"
 
 namespace {
@@ -83,15 +84,7 @@ TEST(ReferenceSolutionDoubleOnly, StrictOptionRefusesFewerDigits) {
 TEST(ReferenceSolutionDoubleOnly, LongDoubleWhenTheRightHandSideTakesIt) {
     const auto p = stepcert::make_problem(
         "kepler, generic state, double time",
-        [](const auto& y, auto& dydt, double) {
-            using std::sqrt;
-            const auto r2 = y[0] * y[0] + y[1] * y[1];
-            const auto inv_r3 = 1 / (r2 * sqrt(r2));
-            dydt[0] = y[2];
-            dydt[1] = y[3];
-            dydt[2] = -y[0] * inv_r3;
-            dydt[3] = -y[1] * inv_r3;
-        },
+        [](const auto& y, auto& dydt, double t) { stepcert::problems::kepler_rhs{}(y, dydt, t); },
         state{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0);
     const auto r = stepcert::reference_solution(p, 25);
     EXPECT_NE(r.how.find("computed in long double"), std::string::npos) << r.how;

@@ -48,4 +48,25 @@ TEST(ReferenceVouchedExact, KeplerTrueErrorBelowVouchedDigits) {
     EXPECT_GT(r.cost.steps, 0u);
 }
 
+// Evenly spaced output times are computed in the reference's own type, not rounded to double:
+// on the double-data Kepler problem (y'(0) = sqrt(3) rounded to double, exact solution by
+// Kepler's equation from those data) the times 20/3 and 40/3 come back to 36 digits, and the
+// true error at them stays below 10^-vouched. At the double-rounded times 20/3 (1.5e-16 off)
+// the exact solution moves by about 1e-16, far more than 10^-25 (common practice, no source).
+TEST(ReferenceVouchedExact, UniformTimesAreNotRoundedToDouble) {
+    const auto p = pr::kepler(0.5, 20.0);
+    const reference_test::kepler_from_pericenter exact{cpp_bin_float_50(0.5), cpp_bin_float_50(p.y0()[3])};
+    const auto r = stepcert::reference_solution(p, 25, stepcert::uniform_times{3});
+    ASSERT_EQ(r.times.size(), 3u);
+    for (std::size_t j = 1; j <= 3; ++j) {
+        const cpp_bin_float_50 t = cpp_bin_float_50(20) * j / 3;
+        EXPECT_LT(static_cast<double>(abs(static_cast<cpp_bin_float_50>(r.times[j - 1]) - t)), 1e-36) << "time " << j;
+    }
+    EXPECT_EQ(r.times.back(), 20);
+    EXPECT_GE(r.vouched_digits, 25.0) << r.how;
+    const double err = true_relative_error(r, std::array<cpp_bin_float_50, 4>{}, exact);
+    EXPECT_LT(err, std::pow(10.0, -r.vouched_digits)) << "true error " << err << "\n" << r.how;
+    EXPECT_THROW((void)stepcert::reference_solution(p, 25, stepcert::uniform_times{0}), stepcert::invalid_input);
+}
+
 } // namespace

@@ -10,15 +10,11 @@
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/report/csv.hpp"
 #include "stepcert/study/order_study.hpp"
+#include "test_report_support.hpp"
 
 namespace {
 
-std::vector<std::string> lines_of(const std::string& text) {
-    std::vector<std::string> out;
-    std::istringstream is(text);
-    for (std::string line; std::getline(is, line);) out.push_back(line);
-    return out;
-}
+using report_test::lines_of;
 
 // y' = -y + cos t on [0, 4] (a cooling fin driven by a slow heat pulse), exact
 // y = (cos t + sin t - e^-t)/2 for y(0) = 0 (derived by variation of constants).

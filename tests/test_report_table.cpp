@@ -10,15 +10,11 @@
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/report/study_table.hpp"
 #include "stepcert/study/order_study.hpp"
+#include "test_report_support.hpp"
 
 namespace {
 
-std::vector<std::string> lines_of(const std::string& text) {
-    std::vector<std::string> out;
-    std::istringstream is(text);
-    for (std::string line; std::getline(is, line);) out.push_back(line);
-    return out;
-}
+using report_test::lines_of;
 
 // A trolley on a spring, q'' = -4 q: y = (q, q'), y(0) = (0, 2), exact (sin 2t, 2 cos 2t).
 auto trolley() {

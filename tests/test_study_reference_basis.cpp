@@ -4,44 +4,18 @@
 #include <cmath>
 #include <limits>
 #include <string>
+#include <vector>
 
 #include <gtest/gtest.h>
 
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/study/order_study.hpp"
+#include "test_study_support.hpp"
 
 namespace {
 
-// Kepler e = 0.5 on [0, 20] (Hull, Enright, Fellen, Sedgwick, SIAM J. Numer. Anal. 9 (1972),
-// class D; partly from memory), exact solution from Kepler's equation E - e sin E = t.
-struct kepler_rhs {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using std::sqrt;
-        const auto r2 = y[0] * y[0] + y[1] * y[1];
-        const auto r3 = r2 * sqrt(r2);
-        dydt[0] = y[2];
-        dydt[1] = y[3];
-        dydt[2] = -y[0] / r3;
-        dydt[3] = -y[1] / r3;
-    }
-};
-// Written for double only, so this file instantiates no multiprecision exact solution.
-void kepler_exact(double t, std::array<double, 4>& y) {
-    const double e = 0.5;
-    double E = t;
-    for (int i = 0; i < 50; ++i) {
-        const double dE = (E - e * std::sin(E) - t) / (1 - e * std::cos(E));
-        E -= dE;
-        if (std::abs(dE) < 1e-15) break;
-    }
-    const double b = std::sqrt(1 - e * e), Ed = 1 / (1 - e * std::cos(E));
-    y = {std::cos(E) - e, b * std::sin(E), -std::sin(E) * Ed, b * std::cos(E) * Ed};
-}
-
-auto kepler_without_exact() {
-    return stepcert::make_problem("kepler e=0.5", kepler_rhs{}, std::array<double, 4>{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0);
-}
+using study_test::kepler_exact_double;
+using study_test::kepler_without_exact;
 
 const stepcert::step_ladder ladder{50, 2.0, 15};
 
@@ -65,7 +39,7 @@ TEST(ReferenceBasis, SameRangeAndOrderAsAgainstTheExactSolution) {
     // the ideal one) and the double evaluation of the formula: measured below 1e-13 over [0, 20],
     // far under the errors in the range.
     const auto by_reference = stepcert::order_study(kepler_without_exact(), stepcert::classic_rk4, ladder);
-    const auto by_exact = stepcert::order_study(kepler_without_exact().with_exact(kepler_exact), stepcert::classic_rk4, ladder);
+    const auto by_exact = stepcert::order_study(kepler_without_exact().with_exact(kepler_exact_double), stepcert::classic_rk4, ladder);
     ASSERT_EQ(by_exact.basis, stepcert::error_basis::exact_solution);
     EXPECT_DOUBLE_EQ(by_exact.reference_digits, 15.0);
     for (std::size_t k = 0; k < ladder.levels; ++k)
@@ -89,7 +63,49 @@ TEST(ReferenceBasis, ExactBasisWithoutExactSolutionIsUnsupported) {
 TEST(ReferenceBasis, ExactProblemsDoNotTakeTheReferencePath) {
     stepcert::study_options o;
     o.basis = stepcert::error_basis::reference_solution;
-    EXPECT_THROW((void)stepcert::order_study(kepler_without_exact().with_exact(kepler_exact), stepcert::classic_rk4,
+    EXPECT_THROW((void)stepcert::order_study(kepler_without_exact().with_exact(kepler_exact_double), stepcert::classic_rk4,
                                              stepcert::step_ladder{50, 2.0, 4}, o),
                  stepcert::unsupported_operation);
+}
+
+// One reference for several studies: computed once at 64 evenly spaced times, it serves every
+// study whose grid size divides 64, and gives the same errors as each study's own reference
+// (both vouch for 20+ digits; the errors compared are above 1e-13).
+TEST(ReferenceBasis, SharedReferenceServesSeveralStudies) {
+    const auto p = kepler_without_exact();
+    const auto shared = stepcert::reference_solution(p, 20, stepcert::uniform_times{64});
+    const stepcert::step_ladder coarse{64, 2.0, 6}, halves{32, 2.0, 6};
+    for (const auto& l : {coarse, halves}) {
+        const auto own = stepcert::order_study(p, stepcert::classic_rk4, l);
+        const auto with_shared = stepcert::order_study(p, stepcert::classic_rk4, l, {}, shared);
+        ASSERT_EQ(with_shared.basis, stepcert::error_basis::reference_solution);
+        EXPECT_TRUE(with_shared.reference_shared);
+        EXPECT_FALSE(own.reference_shared);
+        EXPECT_EQ(with_shared.reference_evaluations, shared.cost.evaluations);
+        std::size_t runs = 0;
+        for (const auto& lv : with_shared.levels) runs += lv.evaluations;
+        EXPECT_EQ(with_shared.total_evaluations, runs);  // the shared cost is not the study's
+        for (std::size_t k = 0; k < l.levels; ++k)
+            EXPECT_NEAR(with_shared.levels[k].error_grid / own.levels[k].error_grid, 1.0, 1e-6) << "level " << k;
+        EXPECT_NEAR(with_shared.fit.order, own.fit.order, 1e-6);
+    }
+}
+
+TEST(ReferenceBasis, SharedReferenceMustCoverTheGrid) {
+    const auto p = kepler_without_exact();
+    const auto shared = stepcert::reference_solution(p, 18, stepcert::uniform_times{64});
+    try {
+        (void)stepcert::order_study(p, stepcert::classic_rk4, {48, 2.0, 4}, {}, shared);  // grid of 48 times
+        FAIL() << "a grid of 48 times is not inside a reference of 64";
+    } catch (const stepcert::invalid_input& e) {
+        EXPECT_NE(std::string(e.what()).find("multiple of 48"), std::string::npos) << e.what();
+    }
+    // Times 1e-12 off the grid (far more than double's rounding of t <= 20, 4.4e-15) are refused.
+    std::vector<double> doubles;
+    for (int j = 1; j <= 64; ++j) doubles.push_back(20.0 * j / 64.0 + (j % 3 == 0 ? 1e-12 : 0.0));
+    const auto off = stepcert::reference_solution(p, 18, doubles);
+    EXPECT_THROW((void)stepcert::order_study(p, stepcert::classic_rk4, {64, 2.0, 3}, {}, off), stepcert::invalid_input);
+    stepcert::study_options differences;
+    differences.basis = stepcert::error_basis::successive_differences;
+    EXPECT_THROW((void)stepcert::order_study(p, stepcert::classic_rk4, {64, 2.0, 3}, differences, shared), stepcert::invalid_input);
 }

@@ -11,41 +11,12 @@
 #include "stepcert/methods/explicit_midpoint.hpp"
 #include "stepcert/methods/one_step_method.hpp"
 #include "stepcert/study/order_study.hpp"
+#include "test_study_support.hpp"
 
 namespace {
 
-struct kepler_rhs {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using std::sqrt;
-        const auto r2 = y[0] * y[0] + y[1] * y[1];
-        const auto r3 = r2 * sqrt(r2);
-        dydt[0] = y[2];
-        dydt[1] = y[3];
-        dydt[2] = -y[0] / r3;
-        dydt[3] = -y[1] / r3;
-    }
-};
-
-// Kepler e = 0.5 on [0, 20] (Hull, Enright, Fellen, Sedgwick, SIAM J. Numer. Anal. 9 (1972),
-// class D; partly from memory). Exact solution written for double only, on purpose: the study
-// must then evaluate it in double and say so.
-void kepler_exact_double(double t, std::array<double, 4>& y) {
-    const double e = 0.5;
-    double E = t;
-    for (int i = 0; i < 50; ++i) {
-        const double dE = (E - e * std::sin(E) - t) / (1 - e * std::cos(E));
-        E -= dE;
-        if (std::abs(dE) < 1e-15) break;
-    }
-    const double b = std::sqrt(1 - e * e), Ed = 1 / (1 - e * std::cos(E));
-    y = {std::cos(E) - e, b * std::sin(E), -std::sin(E) * Ed, b * std::cos(E) * Ed};
-}
-
-auto kepler_half() {
-    return stepcert::make_problem("kepler e=0.5", kepler_rhs{}, std::array<double, 4>{0.5, 0.0, 0.0, std::sqrt(3.0)}, 0.0, 20.0)
-        .with_exact([](double t, std::array<double, 4>& y) { kepler_exact_double(t, y); });
-}
+using study_test::kepler_exact_double;
+auto kepler_half() { return study_test::kepler_with_double_exact(); }
 
 stepcert::study_options differences() {
     stepcert::study_options o;

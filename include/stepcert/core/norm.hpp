@@ -38,8 +38,9 @@ struct weighted_norm {
         double acc = 0.0;
         for (std::size_t i = 0; i < n; ++i) {
             const double r = static_cast<double>(reference[i]);
-            // Subtract in the wider of the two types before rounding to double.
-            const double d = static_cast<double>(approx[i] - static_cast<scalar_of<A>>(reference[i]));
+            using W = wider_scalar_t<scalar_of<A>, scalar_of<R>>;
+            // Subtract in the wider type, then round the (small) difference to double.
+            const double d = static_cast<double>(static_cast<W>(approx[i]) - static_cast<W>(reference[i]));
             if (!(boost::math::isfinite)(d) || !std::isfinite(r)) return std::numeric_limits<double>::infinity();
             const double scaled = std::abs(d) / (atol + rtol * std::abs(r));
             if (kind == norm_kind::max)

@@ -4,6 +4,7 @@
 #include <array>
 #include <concepts>
 #include <cstddef>
+#include <limits>
 #include <type_traits>
 #include <vector>
 
@@ -44,6 +45,12 @@ concept state = requires(S s, const S cs, std::size_t i) {
     s[i];
     cs[i];
 };
+
+/// The scalar type with more significand bits (the first on a tie): differences of states of
+/// two types, and output times, are taken in it, so a multiprecision value is not rounded to
+/// double first.
+template <class A, class B>
+using wider_scalar_t = std::conditional_t<(std::numeric_limits<A>::digits >= std::numeric_limits<B>::digits), A, B>;
 
 template <state S>
 using scalar_of = typename state_traits<S>::scalar_type;

@@ -23,22 +23,8 @@ namespace stepcert {
 /// controlled stepper for state S; `starting_order` feeds the starting-step rule;
 /// `variable_order` is true when the method has no single order.
 template <class Policy>
-struct odeint_controlled {
-    static constexpr step_control control = step_control::adaptive;
+struct odeint_controlled : detail::adaptive_method_identity<odeint_controlled<Policy>> {
     static constexpr bool variable_order = Policy::variable_order;
-    std::string_view label;
-    int declared_order;
-    double initial_step = 0.0;  ///< first trial step; 0 = automatic (Hairer–Nørsett–Wanner rule)
-
-    std::string_view name() const { return label; }
-    int order() const { return declared_order; }
-
-    /// A copy with a fixed first trial step (to reproduce a run of odeint's own integrate functions).
-    odeint_controlled with_initial_step(double h) const {
-        odeint_controlled m = *this;
-        m.initial_step = h;
-        return m;
-    }
 
     template <class Rhs, class S, class T, class Obs>
     void integrate_adaptive(Rhs rhs, S& y, T t0, const std::vector<T>& times, controller_tolerance tol, Obs obs,
@@ -46,6 +32,8 @@ struct odeint_controlled {
         using std::max;
         using std::min;
         namespace odeint = boost::numeric::odeint;
+        const std::string_view label = this->label;  // members of a dependent base
+        const double initial_step = this->initial_step;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
         detail::check_tolerance_reachable(label, y, tol);
         auto stepper = Policy::template make<S>(tol);

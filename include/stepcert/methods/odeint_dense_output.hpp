@@ -24,21 +24,7 @@ namespace stepcert {
 
 /// StepperFor<S>: an odeint FSAL error stepper with calc_state (odeint: runge_kutta_dopri5).
 template <template <class State> class StepperFor, int StartingOrder>
-struct odeint_dense_output {
-    static constexpr step_control control = step_control::adaptive;
-    std::string_view label;
-    int declared_order;
-    double initial_step = 0.0;  ///< first trial step; 0 = automatic (Hairer–Nørsett–Wanner rule)
-
-    std::string_view name() const { return label; }
-    int order() const { return declared_order; }
-
-    /// A copy with a fixed first trial step (to reproduce a run of odeint's own integrate functions).
-    odeint_dense_output with_initial_step(double h) const {
-        odeint_dense_output m = *this;
-        m.initial_step = h;
-        return m;
-    }
+struct odeint_dense_output : detail::adaptive_method_identity<odeint_dense_output<StepperFor, StartingOrder>> {
 
     template <class Rhs, class S, class T, class Obs>
     void integrate_adaptive(Rhs rhs, S& y, T t0, const std::vector<T>& times, controller_tolerance tol, Obs obs,
@@ -46,6 +32,8 @@ struct odeint_dense_output {
         using std::min;
         namespace odeint = boost::numeric::odeint;
         using controlled = odeint::controlled_runge_kutta<StepperFor<S>>;
+        const std::string_view label = this->label;  // members of a dependent base
+        const double initial_step = this->initial_step;
         detail::check_adaptive_arguments(label, t0, times, tol, initial_step);
         detail::check_tolerance_reachable(label, y, tol);
         // As in odeint_rk_controller.hpp: the copied default stepper's scratch is written before use.

@@ -101,32 +101,38 @@ public:
     using user_state = typename P::state_type;
     using real_state = rebind_state<user_state, Real>;
     using result_type = reference_result<real_state>;
-    using time_type = typename P::scalar_type;
+    /// Output times are held in the wider of the problem's type and Real, so evenly spaced
+    /// times (uniform_times) are not rounded to the problem's double first.
+    using time_type = wider_scalar_t<typename P::scalar_type, Real>;
 
-    reference_builder(const P& p, int digits, std::vector<double> times, const reference_options& opt)
-        : p_(p), d_(digits), opt_(opt), who_("stepcert::reference_solution: problem '" + p.name() + "': ") {
-        if (digits < 1) throw invalid_input(who_ + "digits must be at least 1 (got " + std::to_string(digits) + ").");
-        const time_type t0 = p.t0(), t1 = p.t1();
+    reference_builder(const P& p, int digits, const std::vector<double>& times, const reference_options& opt)
+        : reference_builder(p, digits, opt) {
         // The default output time is t1 exactly, in the problem's own scalar type.
-        if (times.empty()) times_.push_back(t1);
+        if (times.empty()) times_.push_back(t1_);
         for (std::size_t i = 0; i < times.size(); ++i) {
             if (!std::isfinite(times[i]))
                 throw non_finite_value(who_ + "output time " + std::to_string(i) + " is NaN or infinite.");
             time_type t = static_cast<time_type>(times[i]);
             // A double that rounds t0 or t1 of a multiprecision problem means that endpoint.
             const double ulps4 = 4 * std::numeric_limits<double>::epsilon();
-            if (std::abs(times[i] - static_cast<double>(t1)) <= ulps4 * std::abs(static_cast<double>(t1))) t = t1;
-            if (std::abs(times[i] - static_cast<double>(t0)) <= ulps4 * std::abs(static_cast<double>(t0))) t = t0;
-            if (t < t0 || t > t1)
+            if (std::abs(times[i] - static_cast<double>(t1_)) <= ulps4 * std::abs(static_cast<double>(t1_))) t = t1_;
+            if (std::abs(times[i] - static_cast<double>(t0_)) <= ulps4 * std::abs(static_cast<double>(t0_))) t = t0_;
+            if (t < t0_ || t > t1_)
                 throw invalid_input(who_ + "output time " + time_text(times[i]) + " lies outside [t0, t1] = [" +
-                                    time_text(t0) + ", " + time_text(t1) + "]; give times inside the problem's interval.");
+                                    time_text(t0_) + ", " + time_text(t1_) + "]; give times inside the problem's interval.");
             if (i > 0 && !(t > times_.back()))
                 throw invalid_input(who_ + "output times must increase strictly (time " + std::to_string(i) + " is " +
                                     time_text(times[i]) + " after " + time_text(times[i - 1]) + ").");
             times_.push_back(t);
         }
-        with_t0_ = times_.front() == t0;
-        run_times_.assign(times_.begin() + (with_t0_ ? 1 : 0), times_.end());
+        finish_times();
+    }
+
+    reference_builder(const P& p, int digits, uniform_times grid, const reference_options& opt)
+        : reference_builder(p, digits, opt) {
+        if (grid.count == 0) throw invalid_input(who_ + "uniform_times needs a count of at least 1.");
+        times_ = grid.in<time_type>(t0_, t1_);
+        finish_times();
     }
 
     /// Absolute part of the controller tolerance (per unit of tolerance): relative control down
@@ -171,6 +177,17 @@ public:
     }
 
 private:
+    reference_builder(const P& p, int digits, const reference_options& opt)
+        : p_(p), d_(digits), opt_(opt), who_("stepcert::reference_solution: problem '" + p.name() + "': "),
+          t0_(static_cast<time_type>(p.t0())), t1_(static_cast<time_type>(p.t1())) {
+        if (digits < 1) throw invalid_input(who_ + "digits must be at least 1 (got " + std::to_string(digits) + ").");
+    }
+
+    void finish_times() {
+        with_t0_ = times_.front() == t0_;
+        run_times_.assign(times_.begin() + (with_t0_ ? 1 : 0), times_.end());
+    }
+
     struct run_record {
         std::vector<real_state> states;
         int bits = 0;
@@ -420,11 +437,12 @@ private:
     const P& p_;
     int d_;
     reference_options opt_;
+    std::string who_;
+    time_type t0_, t1_;
     std::vector<time_type> times_, run_times_;
     bool with_t0_ = false;
     double atol_factor_ = 0.0;  ///< set by atol_factor() on first use
     std::size_t used_ = 0;
-    std::string who_;
     run_stats cost_;
     std::string log_;
 };
@@ -436,20 +454,22 @@ struct is_type_list : std::false_type {};
 template <class... Ts>
 struct is_type_list<type_list<Ts...>> : std::true_type {};
 
-/// The solution of p at the output times (default {t1}, exact in the problem's scalar type;
-/// t0 may be included; a double within 4 ulps of t0 or t1 means that endpoint), computed in Real from the problem's own right-hand side and vouched for
+/// The solution of p at the output times: a list (default {t1}, exact in the problem's scalar
+/// type; t0 may be included; a double within 4 ulps of t0 or t1 means that endpoint) or
+/// uniform_times{n}, computed in Real from the problem's own right-hand side and vouched for
 /// `digits` significant digits. Throws accuracy_unreachable when it cannot vouch for them (the
 /// message says why and what to do), invalid_input for digits < 1 or times outside [t0, t1] or
 /// not increasing. A right-hand side that accepts only double is handled (see above).
 /// Checks lists the types the narrow check may use, narrowest first (reference_check_types).
 template <class Real = default_reference_real, class Checks = reference_check_types, problem_like P>
-auto reference_solution(const P& p, int digits, std::vector<double> times = {}, const reference_options& options = {}) {
+auto reference_solution(const P& p, int digits, const output_times& times = {}, const reference_options& options = {}) {
     static_assert(std::numeric_limits<Real>::is_specialized && !std::numeric_limits<Real>::is_integer,
                   "stepcert::reference_solution: Real must be a floating-point type with numeric_limits "
                   "(e.g. cpp_bin_float_38, cpp_bin_float_50, float128, mpfr_float_50).");
     static_assert(is_type_list<Checks>::value,
                   "stepcert::reference_solution: Checks must be a stepcert::type_list of scalar types, narrowest first.");
-    return detail::reference_builder<P, Real, Checks>(p, digits, std::move(times), options).build();
+    if (times.is_uniform()) return detail::reference_builder<P, Real, Checks>(p, digits, times.grid(), options).build();
+    return detail::reference_builder<P, Real, Checks>(p, digits, times.list(), options).build();
 }
 
 } // namespace stepcert

@@ -68,6 +68,7 @@ inline nlohmann::json study_to_json(const order_study_result& r) {
     j["basis_detail"] = r.basis_detail;
     j["reference_digits"] = json_number(r.reference_digits);
     j["reference_evaluations"] = r.reference_evaluations;
+    j["reference_shared"] = r.reference_shared;
     j["fit_measure"] = std::string(to_string(r.fit_measure));
     j["norm"] = {{"atol", r.norm.atol}, {"rtol", r.norm.rtol}, {"kind", r.norm.kind == norm_kind::max ? "max" : "rms"}};
     j["grid_points"] = r.grid_points;
@@ -129,6 +130,7 @@ inline order_study_result study_from_json(const nlohmann::json& j) {
         r.basis_detail = j.at("basis_detail").get<std::string>();
         r.reference_digits = number_from_json(j, "reference_digits");
         r.reference_evaluations = j.at("reference_evaluations").get<std::size_t>();
+        r.reference_shared = j.value("reference_shared", false);  // absent in documents written before it existed
         static constexpr error_measure measures[] = {error_measure::final_time, error_measure::grid_max};
         r.fit_measure = detail::enum_from_json(j, "fit_measure", measures);
         const auto& nj = j.at("norm");

@@ -94,7 +94,8 @@ inline void write_study_table(std::ostream& os, const order_study_result& r) {
         os << "\n";
     }
     os << "total evaluations: " << r.total_evaluations;
-    if (r.reference_evaluations > 0) os << " (of which reference: " << r.reference_evaluations << ")";
+    if (r.reference_evaluations > 0)
+        os << (r.reference_shared ? " (plus a shared reference computed once: " : " (of which reference: ") << r.reference_evaluations << ")";
     os << "\n";
 }
 

@@ -21,7 +21,10 @@ struct counted_rhs {
     std::size_t* count;
     std::size_t budget;
 
+    // Constrained, so a problem built on a counted right-hand side still knows which scalar
+    // types the user's function accepts (a double-only one stays double-only).
     template <class S, class T>
+        requires requires(const Rhs& f, const S& y, S& d, T t) { f(y, d, t); }
     void operator()(const S& y, S& dydt, T t) const {
         if (++*count > budget) [[unlikely]]
             detail::throw_budget_exhausted(budget);

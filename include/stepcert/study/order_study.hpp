@@ -7,7 +7,8 @@
 //  1. the problem's exact solution, evaluated in exact_evaluation_real (50 digits) when it is
 //     generic in the scalar type, else in the problem's own scalar type;
 //  2. a multiprecision reference_solution at the grid times, only for problems without an exact
-//     solution (so studies of problems with one never instantiate multiprecision integrators);
+//     solution (so studies of problems with one never instantiate multiprecision integrators),
+//     or one computed once and passed in for several studies (the overload taking it);
 //     chosen automatically and unable to vouch for its digits, it falls back to 3, saying why;
 //  3. no reference: differences of successive levels, Richardson's observed order.
 // Round-off floor of a level with N steps: round_off_factor * sqrt(N) * eps * |y| in the norm's
@@ -35,6 +36,7 @@
 #include "stepcert/core/problem.hpp"
 #include "stepcert/methods/method.hpp"
 #include "stepcert/reference/reference_solution.hpp"
+#include "stepcert/run/counted_rhs.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/study/asymptotic_range.hpp"
 #include "stepcert/study/ladder.hpp"
@@ -50,35 +52,14 @@ using exact_evaluation_real = boost::multiprecision::cpp_bin_float_50;
 
 namespace detail {
 
-/// Counts every evaluation of the wrapped right-hand side, also in runs that fail midway.
-template <class Rhs>
-struct study_counting_rhs {
-    Rhs rhs;
-    std::size_t* count;
-    template <class S, class T>
-        requires requires(const Rhs& f, const S& y, S& d, T t) { f(y, d, t); }
-    void operator()(const S& y, S& dydt, T t) const {
-        ++*count;
-        rhs(y, dydt, t);
-    }
-};
-
+/// p with its right-hand side counted into *count, also in runs that fail midway (each run
+/// enforces its own share of the budget); p must outlive the result.
 template <class P>
 auto with_counted_rhs(const P& p, std::size_t* count) {
-    using R = study_counting_rhs<typename P::rhs_type>;
+    using R = counted_rhs<typename P::rhs_type>;
     return problem<typename P::state_type, R, typename P::exact_type, typename P::jacobian_type>(
-        p.name(), R{p.rhs(), count}, p.y0(), p.t0(), p.t1(), p.exact(), p.jacobian(), p.separable());
-}
-
-/// Weighted norm of approx - ref, subtracting in the wider of the two scalar types.
-template <class A, class R>
-double scaled_difference(const weighted_norm& nrm, const A& approx, const R& ref) {
-    using TA = scalar_of<A>;
-    using TR = scalar_of<R>;
-    if constexpr (std::numeric_limits<TA>::digits >= std::numeric_limits<TR>::digits)
-        return nrm(approx, ref);
-    else
-        return nrm(convert_state<rebind_state<A, TR>>(approx), ref);
+        p.name(), R{&p.rhs(), count, std::numeric_limits<std::size_t>::max()}, p.y0(), p.t0(), p.t1(), p.exact(), p.jacobian(),
+        p.separable());
 }
 
 /// Size of a state in the norm's units: what "relative error 1" means there.
@@ -105,7 +86,7 @@ grid_errors errors_on_grid(const weighted_norm& nrm, const std::vector<S>& state
     grid_errors g;
     for (std::size_t j = 1; j <= G; ++j) {
         const auto& ref = ref_at(j);
-        const double e = scaled_difference(nrm, states[j], ref);
+        const double e = nrm(states[j], ref);
         const double sc = state_scale(nrm, ref);
         // NaN never counts as small: propagate it as +inf.
         g.grid_error = std::isnan(e) ? std::numeric_limits<double>::infinity() : std::max(g.grid_error, e);
@@ -137,12 +118,37 @@ inline double local_order_between(double h_prev, double h, double e_prev, double
     return std::log(e_prev / e) / std::log(h_prev / h);
 }
 
-} // namespace detail
+/// No shared reference (see the order_study overload that takes one).
+struct no_shared_reference {};
 
-/// Runs an order study; see the header comment. T is the scalar type the method runs in
-/// (default: the problem's). Fixed-step methods take a step_ladder, adaptive ones a tolerance_ladder.
-template <class T = void, class P, class M, class Ladder>
-order_study_result order_study(const P& p, const M& m, const Ladder& ladder, const study_options& opt = {}) {
+/// Index in shared.times of each grid time t0 + j (t1 - t0) / G, j = 1..G, compared in the wider
+/// of Tr and the reference's type. A time that differs by more than the rounding of Tr or the
+/// reference's own uncertainty would put that difference into every error, so it is refused.
+template <class Tr, class P, class Ref>
+std::vector<std::size_t> shared_reference_indices(const P& p, const Ref& shared, std::size_t G) {
+    using W = wider_scalar_t<Tr, typename Ref::scalar_type>;
+    const W t0 = static_cast<W>(p.t0()), t1 = static_cast<W>(p.t1());
+    const double rel = 4 * std::max(static_cast<double>(std::numeric_limits<Tr>::epsilon()), std::pow(10.0, -shared.vouched_digits));
+    using std::abs;  // and Boost.Multiprecision's abs by argument-dependent lookup
+    const W tol = static_cast<W>(rel) * abs(t1 - t0);
+    const auto wanted = uniform_times{G}.in<W>(t0, t1);
+    std::vector<std::size_t> idx;
+    std::size_t i = 0;
+    for (const W& t : wanted) {
+        while (i < shared.times.size() && static_cast<W>(shared.times[i]) < t - tol) ++i;
+        if (i == shared.times.size() || abs(static_cast<W>(shared.times[i]) - t) > tol || shared.states.size() != shared.times.size())
+            throw invalid_input("stepcert::order_study: the shared reference of problem '" + p.name() + "' has no state at grid time " +
+                                time_text(t) + " of this study (" + std::to_string(G) + " evenly spaced times); compute it with "
+                                "reference_solution(problem, digits, uniform_times{G0}) where G0 is a multiple of " +
+                                std::to_string(G) + " (for several studies, of every study's grid size).");
+        idx.push_back(i);
+    }
+    return idx;
+}
+
+template <class T, class P, class M, class Ladder, class Shared>
+order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder, const study_options& opt, const Shared& shared) {
+    constexpr bool has_shared = !std::is_same_v<Shared, no_shared_reference>;
     static_assert(problem_like<P>, "stepcert::order_study: the first argument must be a stepcert::problem (make_problem(...)).");
     static_assert(method<M>, "stepcert::order_study: the method must satisfy stepcert::fixed_step_method (integrate_uniform) "
                              "or stepcert::adaptive_method (integrate_adaptive), with name(), order() and control.");
@@ -160,8 +166,7 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     ladder.validate();
 
     const std::size_t L = ladder.levels;
-    const double t0 = static_cast<double>(p.t0()), t1 = static_cast<double>(p.t1());
-    const double length = t1 - t0;
+    const double length = static_cast<double>(p.t1()) - static_cast<double>(p.t0());
 
     order_study_result res;
     res.problem = p.name();
@@ -178,6 +183,12 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
 
     // The basis, settled before any run so a wrong choice costs nothing.
     error_basis basis = opt.basis;
+    if constexpr (has_shared) {
+        if (basis == error_basis::exact_solution || basis == error_basis::successive_differences)
+            throw invalid_input("stepcert::order_study: a shared reference was given, but study_options::basis asks for " +
+                                std::string(to_string(basis)) + "; leave the basis automatic or ask for reference_solution.");
+        basis = error_basis::reference_solution;
+    }
     if (basis == error_basis::automatic) {
         if constexpr (P::has_exact)
             basis = error_basis::exact_solution;
@@ -192,8 +203,9 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
                                     "solution is computed for it (that keeps multiprecision integrators out of such studies); "
                                     "use error_basis::exact_solution, or build the problem without .with_exact(...).");
 
-    // Output grid common to all levels. Every basis compares at these nominal times; a run's
-    // own output time differs from them by rounding only (about one ulp of t).
+    // Output grid common to all levels: t0 + j (t1 - t0) / G, j = 1..G. Every basis computes
+    // these times in its own type (never rounded to double first), so a run's output time
+    // differs from them by the rounding of its own type only.
     std::vector<std::size_t> steps_of;
     std::size_t G = 0;
     if constexpr (fixed) {
@@ -202,12 +214,9 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
     } else {
         G = opt.adaptive_grid_points;
     }
-    std::vector<double> grid_times;  // j = 1..G
-    for (std::size_t j = 1; j <= G; ++j)
-        grid_times.push_back(j == G ? t1 : t0 + length * static_cast<double>(j) / static_cast<double>(G));
+    const uniform_times grid{G};
     std::vector<Tr> adaptive_times;
-    if constexpr (!fixed)
-        for (double t : grid_times) adaptive_times.push_back(static_cast<Tr>(t));
+    if constexpr (!fixed) adaptive_times = grid.in<Tr>(static_cast<Tr>(p.t0()), static_cast<Tr>(p.t1()));
     res.grid_points = G;
 
     // Runs, within one evaluation budget for the whole study.
@@ -265,7 +274,8 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
             if constexpr (std::is_same_v<X, typename P::scalar_type> && !std::is_same_v<X, exact_evaluation_real>)
                 res.basis_detail += " (the exact solution is not generic in the scalar type, so it ran in the problem's own type)";
             std::vector<SX> exact_states(G, state_traits<SX>::make(p.dimension()));
-            for (std::size_t j = 1; j <= G; ++j) p.exact()(static_cast<X>(grid_times[j - 1]), exact_states[j - 1]);
+            const std::vector<X> exact_times = grid.in<X>(static_cast<X>(p.t0()), static_cast<X>(p.t1()));
+            for (std::size_t j = 1; j <= G; ++j) p.exact()(exact_times[j - 1], exact_states[j - 1]);
             for (std::size_t k = 0; k < L; ++k)
                 if (ran[k])
                     errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G,
@@ -273,30 +283,43 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
         }
     } else if (basis == error_basis::reference_solution) {
         if constexpr (!P::has_exact) {
-            const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
-            reference_options ro;
-            ro.max_evaluations = opt.budget.max_evaluations - std::min(opt.budget.max_evaluations, spent);
-            ro.allow_fewer_digits_if_double_only = !opt.require_reference_digits;
-            try {
-                const auto ref = reference_solution(p, digits_asked, grid_times, ro);
-                if (ref.states.size() != G)
-                    throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
-                                " states for " + std::to_string(G) + " grid times.");
+            // Errors against ref.states[index(j)] at grid time j.
+            auto measure_against = [&](const auto& ref, auto&& index, const std::string& what) {
                 res.reference_digits = ref.vouched_digits;
-                res.reference_evaluations = ref.cost.evaluations;
-                res.total_evaluations += ref.cost.evaluations;
                 ref_rel = std::pow(10.0, -ref.vouched_digits);
-                res.basis_detail = "reference solution (" + std::to_string(digits_asked) + " digits asked, " +
+                res.basis_detail = what + " (" + std::to_string(ref.requested_digits) + " digits asked, " +
                                    detail::short_number(ref.vouched_digits, "%.1f") + " vouched): " + ref.how;
                 for (std::size_t k = 0; k < L; ++k)
                     if (ran[k])
                         errs[k] = detail::errors_on_grid(opt.norm, runs[k].states, G,
-                                                         [&](std::size_t j) -> const auto& { return ref.states[j - 1]; });
-            } catch (const accuracy_unreachable& e) {
-                // Asked for explicitly: the user wants to know. Chosen automatically: say why, then fall back.
-                if (opt.basis == error_basis::reference_solution) throw;
-                basis = error_basis::successive_differences;
-                fallback_note = std::string(" (no reference solution: ") + e.what() + ")";
+                                                         [&](std::size_t j) -> const auto& { return ref.states[index(j)]; });
+            };
+            if constexpr (has_shared) {
+                const std::vector<std::size_t> idx = shared_reference_indices<Tr>(p, shared, G);
+                // Its cost was paid once, outside this study: reported, not added to total_evaluations.
+                res.reference_evaluations = shared.cost.evaluations;
+                res.reference_shared = true;
+                measure_against(shared, [&](std::size_t j) { return idx[j - 1]; },
+                                "shared reference solution, computed once for several studies");
+            } else {
+                const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
+                reference_options ro;
+                ro.max_evaluations = opt.budget.max_evaluations - std::min(opt.budget.max_evaluations, spent);
+                ro.allow_fewer_digits_if_double_only = !opt.require_reference_digits;
+                try {
+                    const auto ref = reference_solution(p, digits_asked, grid, ro);
+                    if (ref.states.size() != G)
+                        throw error("stepcert::order_study: the reference solution returned " + std::to_string(ref.states.size()) +
+                                    " states for " + std::to_string(G) + " grid times.");
+                    res.reference_evaluations = ref.cost.evaluations;
+                    res.total_evaluations += ref.cost.evaluations;
+                    measure_against(ref, [](std::size_t j) { return j - 1; }, "reference solution");
+                } catch (const accuracy_unreachable& e) {
+                    // Asked for explicitly: the user wants to know. Chosen automatically: say why, then fall back.
+                    if (opt.basis == error_basis::reference_solution) throw;
+                    basis = error_basis::successive_differences;
+                    fallback_note = std::string(" (no reference solution: ") + e.what() + ")";
+                }
             }
         }
     }
@@ -408,6 +431,28 @@ order_study_result order_study(const P& p, const M& m, const Ladder& ladder, con
                                 ", but one value cannot show that they are in the asymptotic range: add a level";
     }
     return res;
+}
+
+} // namespace detail
+
+/// Runs an order study; see the header comment. T is the scalar type the method runs in
+/// (default: the problem's). Fixed-step methods take a step_ladder, adaptive ones a tolerance_ladder;
+/// a braced list such as {50, 2.0, 8} is read as the one the method takes.
+template <class T = void, class P, class M,
+          class Ladder = std::conditional_t<fixed_step_method<M>, step_ladder, tolerance_ladder>>
+order_study_result order_study(const P& p, const M& m, const Ladder& ladder, const study_options& opt = {}) {
+    return detail::order_study_impl<T>(p, m, ladder, opt, detail::no_shared_reference{});
+}
+
+/// As above, with errors measured against a reference computed once for several studies of a
+/// problem without an exact solution: reference_solution(p, digits, uniform_times{G0}), where G0
+/// is a multiple of every study's grid size (fixed steps: the ladder's common divisor; adaptive:
+/// adaptive_grid_points). Its cost is reported in reference_evaluations, not in total_evaluations.
+template <class T = void, class P, class M,
+          class Ladder = std::conditional_t<fixed_step_method<M>, step_ladder, tolerance_ladder>, class RS>
+order_study_result order_study(const P& p, const M& m, const Ladder& ladder, const study_options& opt,
+                               const reference_result<RS>& shared_reference) {
+    return detail::order_study_impl<T>(p, m, ladder, opt, shared_reference);
 }
 
 } // namespace stepcert

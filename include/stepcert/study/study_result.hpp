@@ -107,6 +107,9 @@ struct order_study_result {
     std::string basis_detail;                                   ///< how the errors were measured
     double reference_digits = std::numeric_limits<double>::quiet_NaN();  ///< digits of the reference (NaN: none)
     std::size_t reference_evaluations = 0;
+    /// The reference was computed once outside this study and shared: its evaluations are not
+    /// part of total_evaluations.
+    bool reference_shared = false;
     error_measure fit_measure = error_measure::grid_max;
     weighted_norm norm{};
     std::size_t grid_points = 0;  ///< output times compared per level (t0 excluded)

@@ -1,4 +1,4 @@
-// An outside project: links only stepcert::stepcert and runs a small study.
+// An outside project: links only stepcert::stepcert (Boost alone) and runs a method.
 // Check basis: exact solution e^{-t} of y' = -y (common practice, no source).
 #include <cmath>
 #include <cstdio>

@@ -19,6 +19,26 @@
 
 namespace stepcert::detail {
 
+/// What every adaptive wrapper carries besides its loop: a name, a declared order and an
+/// optional fixed first trial step. Derived is the wrapper (CRTP, so with_initial_step returns it).
+template <class Derived>
+struct adaptive_method_identity {
+    static constexpr step_control control = step_control::adaptive;
+    std::string_view label;
+    int declared_order;
+    double initial_step = 0.0;  ///< first trial step; 0 = automatic (Hairer–Nørsett–Wanner rule)
+
+    std::string_view name() const { return label; }
+    int order() const { return declared_order; }
+
+    /// A copy with a fixed first trial step (to reproduce a run of odeint's own integrate functions).
+    Derived with_initial_step(double h) const {
+        Derived m = static_cast<const Derived&>(*this);
+        m.initial_step = h;
+        return m;
+    }
+};
+
 template <class T>
 std::string number_text(const T& t) {
     std::ostringstream os;
