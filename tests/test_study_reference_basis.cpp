@@ -108,4 +108,10 @@ TEST(ReferenceBasis, SharedReferenceMustCoverTheGrid) {
     stepcert::study_options differences;
     differences.basis = stepcert::error_basis::successive_differences;
     EXPECT_THROW((void)stepcert::order_study(p, stepcert::classic_rk4, {64, 2.0, 3}, differences, shared), stepcert::invalid_input);
+    // A study that requires 30 reference digits refuses a shared reference that vouches fewer (18 asked).
+    stepcert::study_options strict;
+    strict.require_reference_digits = true;
+    strict.reference_digits = 30;
+    EXPECT_LT(shared.vouched_digits, 30.0);
+    EXPECT_THROW((void)stepcert::order_study(p, stepcert::classic_rk4, {64, 2.0, 3}, strict, shared), stepcert::accuracy_unreachable);
 }

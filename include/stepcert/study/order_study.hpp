@@ -215,6 +215,16 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
         G = opt.adaptive_grid_points;
     }
     const uniform_times grid{G};
+    // A shared reference is checked before any run: its times must cover the grid.
+    std::vector<std::size_t> shared_index;
+    if constexpr (has_shared) {
+        shared_index = shared_reference_indices<Tr>(p, shared, G);
+        const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
+        if (opt.require_reference_digits && shared.vouched_digits < digits_asked)
+            throw accuracy_unreachable("stepcert::order_study: the shared reference of problem '" + p.name() + "' vouches for " +
+                                       detail::short_number(shared.vouched_digits, "%.1f") + " digits, fewer than the " +
+                                       std::to_string(digits_asked) + " this study requires; compute it with more digits.");
+    }
     std::vector<Tr> adaptive_times;
     if constexpr (!fixed) adaptive_times = grid.in<Tr>(static_cast<Tr>(p.t0()), static_cast<Tr>(p.t1()));
     res.grid_points = G;
@@ -295,11 +305,10 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
                                                          [&](std::size_t j) -> const auto& { return ref.states[index(j)]; });
             };
             if constexpr (has_shared) {
-                const std::vector<std::size_t> idx = shared_reference_indices<Tr>(p, shared, G);
                 // Its cost was paid once, outside this study: reported, not added to total_evaluations.
                 res.reference_evaluations = shared.cost.evaluations;
                 res.reference_shared = true;
-                measure_against(shared, [&](std::size_t j) { return idx[j - 1]; },
+                measure_against(shared, [&](std::size_t j) { return shared_index[j - 1]; },
                                 "shared reference solution, computed once for several studies");
             } else {
                 const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
