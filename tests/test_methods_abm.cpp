@@ -12,8 +12,8 @@
 #include "stepcert/methods/fehlberg78.hpp"
 #include "stepcert/run/run.hpp"
 
-#include <boost/numeric/odeint/integrate/integrate_n_steps.hpp>
 
+#include "test_methods_odeint_direct.hpp"
 #include "test_methods_support.hpp"
 
 namespace {
@@ -76,11 +76,7 @@ TYPED_TEST(AdamsBashforthMoulton, AgreesWithOdeintCalledDirectly) {
     using S = std::vector<T>;
     const std::size_t n = 40;
     const auto p = rigid_body_problem();
-    auto direct = [&](auto stepper) {
-        S y = stepcert::convert_state<S>(p.y0());
-        odeint::integrate_n_steps(stepper, p.rhs(), y, T(0), T(4) / n, n);
-        return y;
-    };
+    auto direct = [&](auto stepper) { return odeint_n_steps<T>(p, stepper, n); };
     const S d4 = direct(odeint::adams_bashforth_moulton<4, S, T, S, T>());
     const S d6 = direct(odeint::adams_bashforth_moulton<6, S, T, S, T, odeint::range_algebra, odeint::default_operations,
                                                         odeint::initially_resizer, odeint::runge_kutta_fehlberg78<S, T, S, T>>());

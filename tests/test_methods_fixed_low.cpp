@@ -12,8 +12,8 @@
 #include "stepcert/methods/explicit_midpoint.hpp"
 #include "stepcert/run/run.hpp"
 
-#include <boost/numeric/odeint/integrate/integrate_n_steps.hpp>
 
+#include "test_methods_odeint_direct.hpp"
 #include "test_methods_support.hpp"
 
 namespace {
@@ -68,8 +68,7 @@ TYPED_TEST(LowOrderFixed, AgreesWithOdeintCalledDirectly) {
     using S = std::vector<T>;
     const std::size_t n = 50;
     auto check = [&](const auto& p, const auto& method, auto stepper) {
-        S direct = stepcert::convert_state<S>(p.y0());
-        odeint::integrate_n_steps(stepper, p.rhs(), direct, T(p.t0()), (T(p.t1()) - T(p.t0())) / n, n);
+        const S direct = odeint_n_steps<T>(p, stepper, n);
         auto ours = stepcert::run_uniform<T>(p, method, n);
         EXPECT_LE(max_distance(ours.final_state(), direct), 8 * eps<T>()) << method.name() << " on " << p.name();
     };

@@ -24,3 +24,8 @@
 #include "stepcert/methods/symplectic_rkn.hpp"
 #include "stepcert/methods/one_step_method.hpp"
 #include "stepcert/reference/reference_solution.hpp"
+#include "stepcert/methods/tableau_method.hpp"
+#include "stepcert/tableau/catalogue.hpp"
+#include "stepcert/tableau/error_coefficients.hpp"
+#include "stepcert/tableau/order_conditions.hpp"
+#include "stepcert/tableau/stability.hpp"
