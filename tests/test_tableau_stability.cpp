@@ -114,6 +114,27 @@ TEST(StabilityIntervals, AStability) {
     EXPECT_TRUE(stepcert::stability_summary_of(stepcert::stability_function_of(tb::implicit_midpoint<double>())).a_stable);
 }
 
+TEST(ImplicitCatalogue, GaussAndRadauOrdersAndAStability) {
+    // Gauss–Legendre s stages: order 2s, |R(iy)| = 1; Radau IIA 3 stages: order 5; all A-stable
+    // (Hairer, Wanner II, §IV.5; from memory). Coefficients involve square roots, so this runs in
+    // cpp_bin_float_50, where 64 eps is about 1e-48.
+    for (const auto& t : {tb::gauss_legendre2<mp50>(), tb::gauss_legendre3<mp50>(), tb::radau_iia3<mp50>()}) {
+        const auto order = stepcert::check_order_conditions(t);
+        EXPECT_EQ(order.main.algebraic_order, t.claimed_order) << t.name;
+        EXPECT_TRUE(order.row_sum_mismatches.empty()) << t.name;
+        const auto s = stepcert::stability_summary_of<mp50>(stepcert::stability_function_of(t));
+        EXPECT_TRUE(s.a_stable) << t.name << ": " << s.a_stability_note;
+        EXPECT_TRUE(std::isinf(s.real_interval)) << t.name;
+        EXPECT_TRUE(std::isinf(s.imaginary_interval)) << t.name;
+    }
+    // Radau IIA is L-stable: R(z) -> 0 as z -> infinity (degree of P below that of Q).
+    const auto radau = stepcert::stability_function_of(tb::radau_iia3<mp50>());
+    EXPECT_LT(radau.numerator.degree(), radau.denominator.degree());
+    // The same in double.
+    EXPECT_TRUE(stepcert::stability_summary_of(stepcert::stability_function_of(tb::gauss_legendre2<double>())).a_stable);
+    EXPECT_EQ(stepcert::check_order_conditions(tb::gauss_legendre3<double>()).main.algebraic_order, 6);
+}
+
 TEST(ErrorCoefficients, DormandPrinceSixthOrderNorm) {
     // A^(6) = 3.99e-4, J. R. Dormand, P. J. Prince, J. Comput. Appl. Math. 6 (1980) 19–26 (3 digits
     // published); 3.9908e-4 derived (shared reference values §7). Embedded 4th-order weights:

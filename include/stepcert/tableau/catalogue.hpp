@@ -15,8 +15,16 @@
 //     runge_kutta_cash_karp54);
 //   Dormand–Prince 5(4), J. R. Dormand, P. J. Prince, J. Comput. Appl. Math. 6 (1980) 19–26 (as in
 //     Boost.Odeint's runge_kutta_dopri5);
-//   backward Euler and the implicit midpoint rule — common practice, no source.
+//   backward Euler and the implicit midpoint rule — common practice, no source;
+//   Gauss–Legendre with 2 and 3 stages (J. C. Butcher, Math. Comp. 18 (1964) 50–64) and Radau IIA
+//     with 3 stages (B. L. Ehle 1969), coefficients as tabulated in E. Hairer, G. Wanner, Solving
+//     ODEs II, §IV.5, Tables 5.1, 5.2 and 5.6 — from memory. Their coefficients involve sqrt(3),
+//     sqrt(15) and sqrt(6), so they exist in floating types only.
 // The order checker (order_conditions.hpp) confirms every claimed order exactly in the tests.
+#include <cmath>
+#include <limits>
+#include <vector>
+
 #include "stepcert/tableau/tableau.hpp"
 
 namespace stepcert::tableaus {
@@ -120,6 +128,55 @@ tableau<T> backward_euler() {
 template <class T>
 tableau<T> implicit_midpoint() {
     return tableau_from_text<T>("implicit midpoint", 2, {{"1/2"}}, {"1"}, {"1/2"});
+}
+
+namespace detail {
+template <class T>
+T root_of(int n) {
+    static_assert(!std::numeric_limits<T>::is_exact,
+                  "stepcert::tableaus: this tableau has irrational coefficients (square roots); use double or a "
+                  "Boost.Multiprecision float such as cpp_bin_float_50, not an exact rational type.");
+    using std::sqrt;
+    return sqrt(T(n));
+}
+template <class T>
+tableau<T> implicit_tableau(const char* name, int order, std::vector<std::vector<T>> a, std::vector<T> b, std::vector<T> c) {
+    tableau<T> t;
+    t.name = name;
+    t.claimed_order = order;
+    t.a = std::move(a);
+    t.b = std::move(b);
+    t.c = std::move(c);
+    t.validate_shape();
+    return t;
+}
+} // namespace detail
+
+/// Two-stage Gauss–Legendre, order 4.
+template <class T>
+tableau<T> gauss_legendre2() {
+    const T r3 = detail::root_of<T>(3), q = T(1) / 4, h = T(1) / 2;
+    return detail::implicit_tableau<T>("Gauss-Legendre 2", 4, {{q, q - r3 / 6}, {q + r3 / 6, q}}, {h, h}, {h - r3 / 6, h + r3 / 6});
+}
+
+/// Three-stage Gauss–Legendre, order 6.
+template <class T>
+tableau<T> gauss_legendre3() {
+    const T r = detail::root_of<T>(15), h = T(1) / 2, f = T(5) / 36, g = T(2) / 9;
+    return detail::implicit_tableau<T>("Gauss-Legendre 3", 6,
+                                       {{f, g - r / 15, f - r / 30}, {f + r / 24, g, f - r / 24}, {f + r / 30, g + r / 15, f}},
+                                       {T(5) / 18, T(4) / 9, T(5) / 18}, {h - r / 10, h, h + r / 10});
+}
+
+/// Three-stage Radau IIA, order 5 (stiffly accurate: b is the last row of A).
+template <class T>
+tableau<T> radau_iia3() {
+    const T r = detail::root_of<T>(6);
+    std::vector<std::vector<T>> a{{(88 - 7 * r) / 360, (296 - 169 * r) / 1800, (-2 + 3 * r) / 225},
+                                  {(296 + 169 * r) / 1800, (88 + 7 * r) / 360, (-2 - 3 * r) / 225},
+                                  {(16 - r) / 36, (16 + r) / 36, T(1) / 9}};
+    std::vector<T> b = a[2];
+    return detail::implicit_tableau<T>("Radau IIA 3", 5, std::move(a), std::move(b), {(4 - r) / 10, (4 + r) / 10, T(1)});
 }
 
 } // namespace stepcert::tableaus

@@ -182,9 +182,15 @@ stability_function<T> stability_function_of(const tableau<T>& tab) {
         qv.push_back(detail::determinant(mq));
     }
     stability_function<T> r{detail::interpolate_at_integers(pv), detail::interpolate_at_integers(qv)};
-    // Drop exact zeros at the top (fewer than s effective stages).
+    // Drop zeros at the top (fewer effective powers than stages, e.g. an L-stable method's P):
+    // exact zeros, or in a floating type round-off below 64 eps of the largest coefficient.
     auto trim = [](polynomial<T>& p) {
-        while (p.c.size() > 1 && p.c.back() == 0) p.c.pop_back();
+        T cut = 0;
+        if constexpr (!std::numeric_limits<T>::is_exact) {
+            for (const T& x : p.c) cut = std::max(cut, detail::abs_value(x));
+            cut *= T(64) * std::numeric_limits<T>::epsilon();
+        }
+        while (p.c.size() > 1 && detail::abs_value(p.c.back()) <= cut) p.c.pop_back();
     };
     trim(r.numerator);
     trim(r.denominator);
@@ -222,6 +228,21 @@ double first_upcrossing(F&& f, Real x_max, bool unbounded_ok) {
     return unbounded_ok ? std::numeric_limits<double>::infinity() : static_cast<double>(x_max);
 }
 
+/// In a floating type, coefficients of a difference such as |P|^2 - |Q|^2 that are round-off of
+/// the terms' coefficients (at most 64 eps of the largest of them) are set to 0, so that
+/// |R(iy)| = 1 of a Gauss method is recognised as such. Exact types are left alone.
+template <class T>
+void drop_round_off(polynomial<T>& diff, const polynomial<T>& term1, const polynomial<T>& term2) {
+    if constexpr (!std::numeric_limits<T>::is_exact) {
+        T scale = 0;
+        for (const T& x : term1.c) scale = std::max(scale, abs_value(x));
+        for (const T& x : term2.c) scale = std::max(scale, abs_value(x));
+        const T cut = T(64) * std::numeric_limits<T>::epsilon() * scale;
+        for (T& x : diff.c)
+            if (abs_value(x) <= cut) x = 0;
+    }
+}
+
 /// Sign of a polynomial just to the right of 0: the sign of its lowest nonzero coefficient.
 template <class T>
 int sign_near_zero(const polynomial<T>& p) {
@@ -253,9 +274,11 @@ stability_summary stability_summary_of(const stability_function<T>& r) {
         for (std::size_t k = 1; k < pm.c.size(); k += 2) pm.c[k] = -pm.c[k];
         for (std::size_t k = 1; k < qm.c.size(); k += 2) qm.c[k] = -qm.c[k];
         g = detail::multiply(pm, pm);
+        const auto p2 = g;
         const auto q2 = detail::multiply(qm, qm);
         if (g.c.size() < q2.c.size()) g.c.resize(q2.c.size(), T(0));
         for (std::size_t k = 0; k < q2.c.size(); ++k) g.c[k] -= q2.c[k];
+        detail::drop_round_off(g, p2, q2);
     }
     const bool real_bounded_at_infinity = rational && P.degree() <= Q.degree();
     if (detail::sign_near_zero(g) > 0)
@@ -266,9 +289,11 @@ stability_summary stability_summary_of(const stability_function<T>& r) {
     // Imaginary axis: E(y) = |P(iy)|^2 - |Q(iy)|^2.
     polynomial<T> e = detail::modulus_squared_on_imaginary_axis(P);
     {
+        const auto p2 = e;
         const auto q2 = detail::modulus_squared_on_imaginary_axis(Q);
         if (e.c.size() < q2.c.size()) e.c.resize(q2.c.size(), T(0));
         for (std::size_t k = 0; k < q2.c.size(); ++k) e.c[k] -= q2.c[k];
+        detail::drop_round_off(e, p2, q2);
     }
     const int e_sign = detail::sign_near_zero(e);
     if (e.degree() < 0)
