@@ -24,6 +24,7 @@
 #include "stepcert/methods/symplectic_rkn.hpp"
 #include "stepcert/methods/one_step_method.hpp"
 #include "stepcert/reference/reference_solution.hpp"
+#include "stepcert/methods/adaptive_tableau_method.hpp"
 #include "stepcert/methods/tableau_method.hpp"
 #include "stepcert/tableau/catalogue.hpp"
 #include "stepcert/tableau/error_coefficients.hpp"

@@ -15,6 +15,8 @@
 //     runge_kutta_cash_karp54);
 //   Dormand–Prince 5(4), J. R. Dormand, P. J. Prince, J. Comput. Appl. Math. 6 (1980) 19–26 (as in
 //     Boost.Odeint's runge_kutta_dopri5);
+//   Fehlberg 7(8), E. Fehlberg, NASA TR R-287 (1968) — from memory (as in Boost.Odeint's
+//     runge_kutta_fehlberg78);
 //   backward Euler and the implicit midpoint rule — common practice, no source;
 //   Gauss–Legendre with 2 and 3 stages (J. C. Butcher, Math. Comp. 18 (1964) 50–64) and Radau IIA
 //     with 3 stages (B. L. Ehle 1969), coefficients as tabulated in E. Hairer, G. Wanner, Solving
@@ -118,6 +120,30 @@ tableau<T> dormand_prince54() {
                                 {"35/384", "0", "500/1113", "125/192", "-2187/6784", "11/84", "0"},
                                 {"0", "1/5", "3/10", "4/5", "8/9", "1", "1"},
                                 {"5179/57600", "0", "7571/16695", "393/640", "-92097/339200", "187/2100", "1/40"}, 4);
+}
+
+/// Thirteen stages; propagates the 8th-order weights, the 7th-order ones give the estimate
+/// (as Boost.Odeint's runge_kutta_fehlberg78, whose coefficients these are).
+template <class T>
+tableau<T> fehlberg78() {
+    return tableau_from_text<T>(
+        "Fehlberg 7(8)", 8,
+        {{},
+         {"2/27"},
+         {"1/36", "1/12"},
+         {"1/24", "0", "1/8"},
+         {"5/12", "0", "-25/16", "25/16"},
+         {"1/20", "0", "0", "1/4", "1/5"},
+         {"-25/108", "0", "0", "125/108", "-65/27", "125/54"},
+         {"31/300", "0", "0", "0", "61/225", "-2/9", "13/900"},
+         {"2", "0", "0", "-53/6", "704/45", "-107/9", "67/90", "3"},
+         {"-91/108", "0", "0", "23/108", "-976/135", "311/54", "-19/60", "17/6", "-1/12"},
+         {"2383/4100", "0", "0", "-341/164", "4496/1025", "-301/82", "2133/4100", "45/82", "45/164", "18/41"},
+         {"3/205", "0", "0", "0", "0", "-6/41", "-3/205", "-3/41", "3/41", "6/41", "0"},
+         {"-1777/4100", "0", "0", "-341/164", "4496/1025", "-289/82", "2193/4100", "51/82", "33/164", "12/41", "0", "1"}},
+        {"0", "0", "0", "0", "0", "34/105", "9/35", "9/35", "9/280", "9/280", "0", "41/840", "41/840"},
+        {"0", "2/27", "1/9", "1/6", "5/12", "1/2", "5/6", "1/6", "2/3", "1/3", "1", "0", "1"},
+        {"41/840", "0", "0", "0", "0", "34/105", "9/35", "9/35", "9/280", "9/280", "41/840", "0", "0"}, 7);
 }
 
 template <class T>

@@ -17,6 +17,7 @@
 #include <cmath>
 #include <complex>
 #include <cstddef>
+#include <initializer_list>
 #include <limits>
 #include <optional>
 #include <string>
@@ -123,6 +124,39 @@ polynomial<T> modulus_squared_on_imaginary_axis(const polynomial<T>& p) {
     return r2;
 }
 
+/// The level below which a coefficient computed from these polynomials is round-off: 64 eps of
+/// their largest coefficient in a floating type, 0 in an exact one.
+template <class T>
+T round_off_cut(std::initializer_list<const polynomial<T>*> from) {
+    T cut = 0;
+    if constexpr (!std::numeric_limits<T>::is_exact) {
+        for (const polynomial<T>* p : from)
+            for (const T& x : p->c) cut = std::max(cut, abs_value(x));
+        cut *= T(64) * std::numeric_limits<T>::epsilon();
+    }
+    return cut;
+}
+
+/// Drops top coefficients at round-off level (fewer effective powers than stages, e.g. an
+/// L-stable method's P); exact zeros only in an exact type.
+template <class T>
+void trim_round_off(polynomial<T>& p) {
+    const T cut = round_off_cut<T>({&p});
+    while (p.c.size() > 1 && abs_value(p.c.back()) <= cut) p.c.pop_back();
+}
+
+/// a - b with coefficients at the round-off level of a and b set to 0, so that |P|^2 - |Q|^2 of
+/// a Gauss method is recognised as identically 0 (|R(iy)| = 1) in a floating type.
+template <class T>
+polynomial<T> difference_without_round_off(polynomial<T> a, const polynomial<T>& b) {
+    const T cut = round_off_cut<T>({&a, &b});
+    if (a.c.size() < b.c.size()) a.c.resize(b.c.size(), T(0));
+    for (std::size_t k = 0; k < b.c.size(); ++k) a.c[k] -= b.c[k];
+    for (T& x : a.c)
+        if (abs_value(x) <= cut) x = 0;
+    return a;
+}
+
 /// Routh–Hurwitz: true when every root of q has negative real part; nullopt when the table
 /// meets a zero pivot (undecided by this simple form of the test).
 template <class T>
@@ -182,18 +216,8 @@ stability_function<T> stability_function_of(const tableau<T>& tab) {
         qv.push_back(detail::determinant(mq));
     }
     stability_function<T> r{detail::interpolate_at_integers(pv), detail::interpolate_at_integers(qv)};
-    // Drop zeros at the top (fewer effective powers than stages, e.g. an L-stable method's P):
-    // exact zeros, or in a floating type round-off below 64 eps of the largest coefficient.
-    auto trim = [](polynomial<T>& p) {
-        T cut = 0;
-        if constexpr (!std::numeric_limits<T>::is_exact) {
-            for (const T& x : p.c) cut = std::max(cut, detail::abs_value(x));
-            cut *= T(64) * std::numeric_limits<T>::epsilon();
-        }
-        while (p.c.size() > 1 && detail::abs_value(p.c.back()) <= cut) p.c.pop_back();
-    };
-    trim(r.numerator);
-    trim(r.denominator);
+    detail::trim_round_off(r.numerator);
+    detail::trim_round_off(r.denominator);
     return r;
 }
 
@@ -228,21 +252,6 @@ double first_upcrossing(F&& f, Real x_max, bool unbounded_ok) {
     return unbounded_ok ? std::numeric_limits<double>::infinity() : static_cast<double>(x_max);
 }
 
-/// In a floating type, coefficients of a difference such as |P|^2 - |Q|^2 that are round-off of
-/// the terms' coefficients (at most 64 eps of the largest of them) are set to 0, so that
-/// |R(iy)| = 1 of a Gauss method is recognised as such. Exact types are left alone.
-template <class T>
-void drop_round_off(polynomial<T>& diff, const polynomial<T>& term1, const polynomial<T>& term2) {
-    if constexpr (!std::numeric_limits<T>::is_exact) {
-        T scale = 0;
-        for (const T& x : term1.c) scale = std::max(scale, abs_value(x));
-        for (const T& x : term2.c) scale = std::max(scale, abs_value(x));
-        const T cut = T(64) * std::numeric_limits<T>::epsilon() * scale;
-        for (T& x : diff.c)
-            if (abs_value(x) <= cut) x = 0;
-    }
-}
-
 /// Sign of a polynomial just to the right of 0: the sign of its lowest nonzero coefficient.
 template <class T>
 int sign_near_zero(const polynomial<T>& p) {
@@ -268,18 +277,10 @@ stability_summary stability_summary_of(const stability_function<T>& r) {
     const Real x_max = rational ? Real(1e6) : Real(2.0 * s_eff * s_eff + 1.0);
 
     // Real axis: g(x) = P(-x)^2 - Q(-x)^2 > 0 means |R(-x)| > 1.
-    polynomial<T> g;
-    {
-        polynomial<T> pm = P, qm = Q;  // P(-x), Q(-x)
-        for (std::size_t k = 1; k < pm.c.size(); k += 2) pm.c[k] = -pm.c[k];
-        for (std::size_t k = 1; k < qm.c.size(); k += 2) qm.c[k] = -qm.c[k];
-        g = detail::multiply(pm, pm);
-        const auto p2 = g;
-        const auto q2 = detail::multiply(qm, qm);
-        if (g.c.size() < q2.c.size()) g.c.resize(q2.c.size(), T(0));
-        for (std::size_t k = 0; k < q2.c.size(); ++k) g.c[k] -= q2.c[k];
-        detail::drop_round_off(g, p2, q2);
-    }
+    polynomial<T> pm = P, qm = Q;  // P(-x), Q(-x)
+    for (std::size_t k = 1; k < pm.c.size(); k += 2) pm.c[k] = -pm.c[k];
+    for (std::size_t k = 1; k < qm.c.size(); k += 2) qm.c[k] = -qm.c[k];
+    const polynomial<T> g = detail::difference_without_round_off(detail::multiply(pm, pm), detail::multiply(qm, qm));
     const bool real_bounded_at_infinity = rational && P.degree() <= Q.degree();
     if (detail::sign_near_zero(g) > 0)
         out.real_interval = 0.0;
@@ -287,14 +288,8 @@ stability_summary stability_summary_of(const stability_function<T>& r) {
         out.real_interval = detail::first_upcrossing<Real>([&](const Real& x) { return g(x); }, x_max, real_bounded_at_infinity);
 
     // Imaginary axis: E(y) = |P(iy)|^2 - |Q(iy)|^2.
-    polynomial<T> e = detail::modulus_squared_on_imaginary_axis(P);
-    {
-        const auto p2 = e;
-        const auto q2 = detail::modulus_squared_on_imaginary_axis(Q);
-        if (e.c.size() < q2.c.size()) e.c.resize(q2.c.size(), T(0));
-        for (std::size_t k = 0; k < q2.c.size(); ++k) e.c[k] -= q2.c[k];
-        detail::drop_round_off(e, p2, q2);
-    }
+    const polynomial<T> e = detail::difference_without_round_off(detail::modulus_squared_on_imaginary_axis(P),
+                                                                 detail::modulus_squared_on_imaginary_axis(Q));
     const int e_sign = detail::sign_near_zero(e);
     if (e.degree() < 0)
         out.imaginary_interval = std::numeric_limits<double>::infinity();  // |R(iy)| = 1 exactly

@@ -5,11 +5,13 @@
 // (report/stability_svg.hpp). The boundary is accurate to a fraction of a cell; the intervals in
 // stability.hpp are the precise numbers.
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <complex>
 #include <cstddef>
 #include <limits>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "stepcert/core/error.hpp"
@@ -82,22 +84,25 @@ stability_region stability_region_of(const stability_function<T>& r, const plane
         for (std::size_t j = 0; j < columns; ++j) {
             const double x0 = box.re_min + dx * static_cast<double>(j);
             const double f00 = at(i, j), f01 = at(i, j + 1), f10 = at(i + 1, j), f11 = at(i + 1, j + 1);
-            // Edge crossings: bottom (00-01), right (01-11), top (10-11), left (00-10).
-            std::vector<std::pair<double, double>> pts;
+            const double centre = f(x0 + dx / 2, y0 + dy / 2);
+            // Edge crossings: bottom (00-01), right (01-11), top (10-11), left (00-10); a cell
+            // has 0, 2 or 4 of them.
+            std::array<std::pair<double, double>, 4> pts{};
+            std::size_t n_pts = 0;
             auto edge = [&](double fa, double fb, double xa, double ya, double xb, double yb) {
                 if ((fa > 0) != (fb > 0)) {
                     const double t = cross(fa, fb);
-                    pts.emplace_back(xa + t * (xb - xa), ya + t * (yb - ya));
+                    pts[n_pts++] = {xa + t * (xb - xa), ya + t * (yb - ya)};
                 }
             };
             edge(f00, f01, x0, y0, x0 + dx, y0);
             edge(f01, f11, x0 + dx, y0, x0 + dx, y0 + dy);
             edge(f11, f10, x0 + dx, y0 + dy, x0, y0 + dy);
             edge(f10, f00, x0, y0 + dy, x0, y0);
-            if (pts.size() == 2) {
+            if (n_pts == 2) {
                 out.boundary.push_back({pts[0].first, pts[0].second, pts[1].first, pts[1].second});
-            } else if (pts.size() == 4) {  // saddle: pair by the centre's side
-                const bool centre_unstable = f(x0 + dx / 2, y0 + dy / 2) > 0;
+            } else if (n_pts == 4) {  // saddle: pair by the centre's side
+                const bool centre_unstable = centre > 0;
                 const bool corner_unstable = f00 > 0;
                 if (centre_unstable == corner_unstable) {
                     out.boundary.push_back({pts[0].first, pts[0].second, pts[1].first, pts[1].second});
@@ -107,7 +112,7 @@ stability_region stability_region_of(const stability_function<T>& r, const plane
                     out.boundary.push_back({pts[1].first, pts[1].second, pts[2].first, pts[2].second});
                 }
             }
-            const bool stable = f(x0 + dx / 2, y0 + dy / 2) <= 0;
+            const bool stable = centre <= 0;
             if (stable && !in_run) {
                 in_run = true;
                 first = j;
