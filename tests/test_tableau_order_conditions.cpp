@@ -102,6 +102,35 @@ TYPED_TEST(CatalogueOrders, EveryTableauHasItsPublishedOrderExactly) {
     }
 }
 
+TEST(OrderConditions, EveryExplicitTableauLosesItsOrderToOneChangedCoefficient) {
+    // For each explicit catalogue tableau of order >= 2: add 1/1000 to the last nonzero a_ij of a
+    // stage with b_i != 0. Its row sum no longer equals c_i (reported), and sum_i b_i sum_j a_ij,
+    // the elementary weight of the tree [t], moves off 1/2 by b_i/1000 (derived), so the order
+    // falls to 1 and the first failure is [t] of order 2.
+    std::size_t checked = 0;
+    for (const auto& original : catalogue<cpp_rational>()) {
+        if (!original.is_explicit() || original.claimed_order < 2) continue;
+        ++checked;
+        auto t = original;
+        std::size_t row = 0, col = 0;
+        for (std::size_t i = 0; i < t.stages(); ++i)
+            for (std::size_t j = 0; j < i; ++j)
+                if (t.b[i] != 0 && t.a[i][j] != 0) row = i, col = j;
+        ASSERT_GT(row, 0u) << t.name;
+        t.a[row][col] += cpp_rational(1, 1000);
+        const auto r = stepcert::check_order_conditions(t);
+        EXPECT_EQ(r.main.algebraic_order, 1) << t.name;
+        ASSERT_TRUE(r.main.first_failure.has_value()) << t.name;
+        EXPECT_EQ(r.main.first_failure->tree, "[t]") << t.name;
+        EXPECT_EQ(r.main.first_failure->order, 2) << t.name;
+        EXPECT_DOUBLE_EQ(r.main.first_failure->residual, static_cast<double>(cpp_rational(t.b[row] / 1000))) << t.name;
+        EXPECT_FALSE(r.meets_claim()) << t.name;
+        ASSERT_EQ(r.row_sum_mismatches.size(), 1u) << t.name;
+        EXPECT_EQ(r.row_sum_mismatches[0], row) << t.name;
+    }
+    EXPECT_EQ(checked, 12u);  // Heun, Ralston, midpoint, Kutta 3, SSP 3, RK4, 3/8, BS 3(2), F 4(5), CK, DP, F 7(8)
+}
+
 TEST(OrderConditions, ConditionCountsOfClassicRk4) {
     // Checking order 4 + 1: 1 + 1 + 2 + 4 + 9 = 17 conditions; RK4 fails some of the 9 of order 5.
     const auto r = stepcert::check_order_conditions(stepcert::tableaus::classic_rk4<cpp_rational>());
