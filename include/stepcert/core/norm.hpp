@@ -34,19 +34,58 @@ struct weighted_norm {
     /// Norm of (approx - reference), scaled by the reference.
     template <state A, state R>
     double operator()(const A& approx, const R& reference) const {
-        const std::size_t n = state_size(reference);
+        using W = wider_scalar_t<scalar_of<A>, scalar_of<R>>;
+        return combine(state_size(reference), [&](std::size_t i) {
+            // Subtract in the wider type, then round the (small) difference to double.
+            return scaled(static_cast<double>(static_cast<W>(approx[i]) - static_cast<W>(reference[i])),
+                          static_cast<double>(reference[i]));
+        });
+    }
+
+    /// Norm of a difference already formed (an error estimate), scaled by the state `scale`.
+    template <state D, state R>
+    double of_difference(const D& difference, const R& scale) const {
+        if (rtol == 0.0) return absolute_of(difference);
+        return combine(state_size(scale),
+                       [&](std::size_t i) { return scaled(static_cast<double>(difference[i]), static_cast<double>(scale[i])); });
+    }
+
+private:
+    /// With fixed weights (rtol = 0) one division at the end instead of one per component: this
+    /// runs after every step of a monitored production run.
+    template <state D>
+    double absolute_of(const D& difference) const {
+        const std::size_t n = state_size(difference);
+        double acc = 0.0;
+        bool finite = true;
+        for (std::size_t i = 0; i < n; ++i) {
+            const double d = std::abs(static_cast<double>(difference[i]));
+            finite = finite && d <= std::numeric_limits<double>::max();  // false for NaN and inf
+            if (kind == norm_kind::max)
+                acc = std::max(acc, d);
+            else
+                acc += d * d;
+        }
+        if (!finite) return std::numeric_limits<double>::infinity();
+        return (kind == norm_kind::max ? acc : std::sqrt(acc / static_cast<double>(n))) / atol;
+    }
+
+    /// |d| / (atol + rtol |r|), or +inf when d or r is not finite.
+    double scaled(double d, double r) const {
+        if (!std::isfinite(d) || !std::isfinite(r)) return std::numeric_limits<double>::infinity();
+        return std::abs(d) / (atol + rtol * std::abs(r));
+    }
+
+    template <class Scaled>
+    double combine(std::size_t n, Scaled&& scaled_at) const {
         double acc = 0.0;
         for (std::size_t i = 0; i < n; ++i) {
-            const double r = static_cast<double>(reference[i]);
-            using W = wider_scalar_t<scalar_of<A>, scalar_of<R>>;
-            // Subtract in the wider type, then round the (small) difference to double.
-            const double d = static_cast<double>(static_cast<W>(approx[i]) - static_cast<W>(reference[i]));
-            if (!(boost::math::isfinite)(d) || !std::isfinite(r)) return std::numeric_limits<double>::infinity();
-            const double scaled = std::abs(d) / (atol + rtol * std::abs(r));
+            const double x = scaled_at(i);
+            if (std::isinf(x)) return x;
             if (kind == norm_kind::max)
-                acc = std::max(acc, scaled);
+                acc = std::max(acc, x);
             else
-                acc += scaled * scaled;
+                acc += x * x;
         }
         return kind == norm_kind::max ? acc : std::sqrt(acc / static_cast<double>(n));
     }

@@ -6,6 +6,7 @@
 #include <limits>
 #include <sstream>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "stepcert/core/concepts.hpp"
@@ -60,6 +61,24 @@ struct collecting_observer {
     }
 };
 
+/// A method that needs the (q, p) layout (requires_separable) runs only on a problem declared so.
+template <class P, class M>
+void require_separable_if_needed(const P& p, const M& m, std::string_view who) {
+    if constexpr (requires_separable_v<M>) {
+        bool separable = false;
+        if constexpr (requires { p.separable(); }) separable = p.separable();
+        if (!separable)
+            throw unsupported_operation(std::string(who) + ": method '" + std::string(m.name()) +
+                                        "' needs a separable problem y = (q, p) with q' = g(p) and p' = h(q); problem '" +
+                                        p.name() + "' is not declared so. If its right-hand side has that form, pass "
+                                        "problem.as_separable(); otherwise use a general method.");
+    } else {
+        (void)p;
+        (void)m;
+        (void)who;
+    }
+}
+
 } // namespace detail
 
 /// n uniform steps of h = (t1 - t0)/n in scalar T, output at t0 and every stride steps.
@@ -68,15 +87,7 @@ auto run_uniform(const P& p, const M& m, std::size_t n, std::size_t stride = 0, 
     using Tr = std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>;
     using S = rebind_state<typename P::state_type, Tr>;
     detail::require_rhs_in<P, Tr>(p);
-    if constexpr (requires_separable_v<M>) {
-        bool separable = false;
-        if constexpr (requires { p.separable(); }) separable = p.separable();
-        if (!separable)
-            throw unsupported_operation("stepcert::run_uniform: method '" + std::string(m.name()) +
-                                        "' needs a separable problem y = (q, p) with q' = g(p) and p' = h(q); problem '" +
-                                        p.name() + "' is not declared so. If its right-hand side has that form, pass "
-                                        "problem.as_separable(); otherwise use a general method.");
-    }
+    detail::require_separable_if_needed(p, m, "stepcert::run_uniform");
     if (n == 0) throw invalid_input("stepcert::run_uniform: the number of steps must be at least 1.");
     if (stride == 0) stride = n;
     if (n % stride != 0)

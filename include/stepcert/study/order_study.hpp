@@ -35,6 +35,8 @@
 #include "stepcert/core/norm.hpp"
 #include "stepcert/core/problem.hpp"
 #include "stepcert/methods/method.hpp"
+#include "stepcert/reference/exact_evaluation.hpp"
+#include "stepcert/reference/reference_grid.hpp"
 #include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/run/counted_rhs.hpp"
 #include "stepcert/run/run.hpp"
@@ -46,9 +48,6 @@
 
 
 namespace stepcert {
-
-/// Real type in which a generic exact solution is evaluated.
-using exact_evaluation_real = boost::multiprecision::cpp_bin_float_50;
 
 namespace detail {
 
@@ -99,18 +98,6 @@ grid_errors errors_on_grid(const weighted_norm& nrm, const std::vector<S>& state
     return g;
 }
 
-template <class P, class X>
-constexpr bool exact_accepts = P::has_exact && exact_solution_for<typename P::exact_type, rebind_state<typename P::state_type, X>>;
-
-/// Where a generic exact solution is evaluated: at least 50 digits, more if the study runs wider.
-template <class P, class Tr>
-using exact_real_for = std::conditional_t<
-    exact_accepts<P, exact_evaluation_real>,
-    std::conditional_t<(std::numeric_limits<Tr>::digits > std::numeric_limits<exact_evaluation_real>::digits) &&
-                           exact_accepts<P, Tr>,
-                       Tr, exact_evaluation_real>,
-    typename P::scalar_type>;
-
 inline double local_order_between(double h_prev, double h, double e_prev, double e) {
     if (!std::isfinite(e_prev) || !std::isfinite(e) || !(e_prev > 0.0) || !(e > 0.0) || !(h_prev > 0.0) || !(h > 0.0) ||
         h_prev == h)
@@ -120,31 +107,6 @@ inline double local_order_between(double h_prev, double h, double e_prev, double
 
 /// No shared reference (see the order_study overload that takes one).
 struct no_shared_reference {};
-
-/// Index in shared.times of each grid time t0 + j (t1 - t0) / G, j = 1..G, compared in the wider
-/// of Tr and the reference's type. A time that differs by more than the rounding of Tr or the
-/// reference's own uncertainty would put that difference into every error, so it is refused.
-template <class Tr, class P, class Ref>
-std::vector<std::size_t> shared_reference_indices(const P& p, const Ref& shared, std::size_t G) {
-    using W = wider_scalar_t<Tr, typename Ref::scalar_type>;
-    const W t0 = static_cast<W>(p.t0()), t1 = static_cast<W>(p.t1());
-    const double rel = 4 * std::max(static_cast<double>(std::numeric_limits<Tr>::epsilon()), std::pow(10.0, -shared.vouched_digits));
-    using std::abs;  // and Boost.Multiprecision's abs by argument-dependent lookup
-    const W tol = static_cast<W>(rel) * abs(t1 - t0);
-    const auto wanted = uniform_times{G}.in<W>(t0, t1);
-    std::vector<std::size_t> idx;
-    std::size_t i = 0;
-    for (const W& t : wanted) {
-        while (i < shared.times.size() && static_cast<W>(shared.times[i]) < t - tol) ++i;
-        if (i == shared.times.size() || abs(static_cast<W>(shared.times[i]) - t) > tol || shared.states.size() != shared.times.size())
-            throw invalid_input("stepcert::order_study: the shared reference of problem '" + p.name() + "' has no state at grid time " +
-                                time_text(t) + " of this study (" + std::to_string(G) + " evenly spaced times); compute it with "
-                                "reference_solution(problem, digits, uniform_times{G0}) where G0 is a multiple of " +
-                                std::to_string(G) + " (for several studies, of every study's grid size).");
-        idx.push_back(i);
-    }
-    return idx;
-}
 
 template <class T, class P, class M, class Ladder, class Shared>
 order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder, const study_options& opt, const Shared& shared) {
@@ -218,7 +180,7 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
     // A shared reference is checked before any run: its times must cover the grid.
     std::vector<std::size_t> shared_index;
     if constexpr (has_shared) {
-        shared_index = shared_reference_indices<Tr>(p, shared, G);
+        shared_index = reference_grid_indices<Tr>(p, shared, G, "stepcert::order_study");
         const int digits_asked = opt.reference_digits > 0 ? opt.reference_digits : res.working_digits + 5;
         if (opt.require_reference_digits && shared.vouched_digits < digits_asked)
             throw accuracy_unreachable("stepcert::order_study: the shared reference of problem '" + p.name() + "' vouches for " +
