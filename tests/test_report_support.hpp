@@ -1,5 +1,6 @@
 #pragma once
-// Helpers shared by the report tests.
+// Helpers shared by the report tests (text parsing only; no check values live here, so no source
+// is named: the values and their sources are beside the checks in test_report_*.cpp).
 #include <sstream>
 #include <string>
 #include <vector>

@@ -1,5 +1,7 @@
 // libFuzzer target for the tableau file reader: every input must either parse or throw
 // stepcert::invalid_input; anything else (another exception, a crash, a sanitizer report) is a bug.
+// No outside values are checked here (common practice, no source: a reader must reject, not crash);
+// the malformed-input classes with their expected messages are in tests/test_tableau_json.cpp.
 #include <cstddef>
 #include <cstdint>
 #include <string_view>

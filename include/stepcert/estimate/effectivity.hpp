@@ -14,7 +14,7 @@
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/norm.hpp"
 #include "stepcert/estimate/local_error.hpp"
-#include "stepcert/estimate/richardson_global.hpp"
+#include "stepcert/estimate/global_error.hpp"
 
 namespace stepcert {
 

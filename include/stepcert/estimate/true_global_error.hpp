@@ -41,12 +41,14 @@ global_error_estimate true_global_error(const P& p, const M& m, std::size_t n, c
     const std::size_t G = opt.grid_points;
     auto record = [&](std::size_t j, const auto& exact) {
         const auto& y = run.states[j];
-        std::vector<double> e(state_size(y));
-        using W = wider_scalar_t<scalar_of<std::decay_t<decltype(y)>>, scalar_of<std::decay_t<decltype(exact)>>>;
-        for (std::size_t i = 0; i < e.size(); ++i) e[i] = static_cast<double>(static_cast<W>(y[i]) - static_cast<W>(exact[i]));
         out.times.push_back(static_cast<double>(run.times[j]));
         out.estimate.push_back(opt.norm(y, exact));
-        if (opt.keep_vectors) out.vectors.push_back(std::move(e));
+        if (opt.keep_vectors) {
+            using W = wider_scalar_t<scalar_of<std::decay_t<decltype(y)>>, scalar_of<std::decay_t<decltype(exact)>>>;
+            std::vector<double> e(state_size(y));
+            for (std::size_t i = 0; i < e.size(); ++i) e[i] = static_cast<double>(static_cast<W>(y[i]) - static_cast<W>(exact[i]));
+            out.vectors.push_back(std::move(e));
+        }
     };
     if constexpr (P::has_exact) {
         using X = detail::exact_real_for<P, Tr>;

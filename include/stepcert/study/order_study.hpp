@@ -34,6 +34,7 @@
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/norm.hpp"
 #include "stepcert/core/problem.hpp"
+#include "stepcert/core/round_off.hpp"
 #include "stepcert/methods/method.hpp"
 #include "stepcert/reference/exact_evaluation.hpp"
 #include "stepcert/reference/reference_grid.hpp"
@@ -332,7 +333,7 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
         const double scale = opt.fit_measure == error_measure::final_time ? errs[k].final_scale : errs[k].grid_scale;
         const double size = std::max(y0_scale, differences ? solution_scale : errs[k].grid_scale) * opt.range.max_relative_error;
         if (ok && size > 0.0) ceilings[k] = size;
-        lv.round_off_floor = ok ? opt.range.round_off_factor * std::sqrt(static_cast<double>(lv.steps)) * static_cast<double>(eps) * scale +
+        lv.round_off_floor = ok ? round_off_floor(opt.range.round_off_factor, lv.steps, static_cast<double>(eps), scale) +
                                       scale * ref_rel
                                 : std::numeric_limits<double>::quiet_NaN();
     }
