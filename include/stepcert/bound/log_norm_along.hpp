@@ -4,7 +4,8 @@
 // jac(y, t, J) writing an n x n matrix) or central differences of the right-hand side with step
 // delta_j = eps^(1/3) max(1, |y_j|) (common practice, no source). Sampled at the run's output
 // states only, the largest value is an estimate, not a bound: between samples, and between the
-// numerical and the exact solution, mu can be larger.
+// numerical and the exact solution, mu can be larger. The Jacobian comes from jacobian_at
+// (transport/jacobian.hpp).
 #include <algorithm>
 #include <cmath>
 #include <cstddef>
@@ -18,8 +19,8 @@
 #include "stepcert/core/concepts.hpp"
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/norm.hpp"
-#include "stepcert/core/state.hpp"
 #include "stepcert/run/run.hpp"
+#include "stepcert/transport/jacobian.hpp"
 
 namespace stepcert {
 
@@ -42,46 +43,6 @@ struct log_norm_samples {
     }
 };
 
-/// The Jacobian of p at (y, t) in double: the problem's own, checked for size and finiteness,
-/// or central differences of its right-hand side.
-template <problem_like P, class S>
-Eigen::MatrixXd jacobian_at(const P& p, const S& state, double t) {
-    using D = rebind_state<typename P::state_type, double>;
-    const D y = convert_state<D>(state);
-    const std::size_t n = state_size(y);
-    const auto N = static_cast<Eigen::Index>(n);
-    Eigen::MatrixXd J = Eigen::MatrixXd::Zero(N, N);
-    if constexpr (P::has_jacobian) {
-        p.jacobian()(y, t, J);
-        if (J.rows() != N || J.cols() != N)
-            throw invalid_input("stepcert::jacobian_at: the Jacobian of problem '" + p.name() + "' came back " +
-                                std::to_string(J.rows()) + " x " + std::to_string(J.cols()) + "; the state has " +
-                                std::to_string(n) + " components, so it must be " + std::to_string(n) + " x " +
-                                std::to_string(n) + ".");
-    } else {
-        static_assert(P::template rhs_accepts<double>,
-                      "stepcert::jacobian_at: without a Jacobian the right-hand side is differenced in double; "
-                      "make it accept double states, or attach a Jacobian with problem.with_jacobian(jac).");
-        D plus = y, minus = y, fp = state_traits<D>::make(n), fm = state_traits<D>::make(n);
-        const double root3_eps = std::cbrt(std::numeric_limits<double>::epsilon());
-        for (std::size_t j = 0; j < n; ++j) {
-            const double delta = root3_eps * std::max(1.0, std::abs(y[j]));
-            plus[j] = y[j] + delta;
-            minus[j] = y[j] - delta;
-            p.rhs()(static_cast<const D&>(plus), fp, t);
-            p.rhs()(static_cast<const D&>(minus), fm, t);
-            for (std::size_t i = 0; i < n; ++i)
-                J(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = (fp[i] - fm[i]) / (plus[j] - minus[j]);
-            plus[j] = y[j];
-            minus[j] = y[j];
-        }
-    }
-    if (!J.allFinite())
-        throw non_finite_value("stepcert::jacobian_at: the Jacobian of problem '" + p.name() + "' at t = " +
-                               detail::time_text(t) + " has a NaN or infinite entry; check it (or the right-hand side) there.");
-    return J;
-}
-
 /// mu[J(y(t), t)] at every state of a run (a trajectory from run_uniform or run_adaptive).
 template <problem_like P, class Trajectory>
 log_norm_samples log_norm_along(const P& p, const Trajectory& run, matrix_norm kind) {
@@ -90,7 +51,7 @@ log_norm_samples log_norm_along(const P& p, const Trajectory& run, matrix_norm k
     out.kind = kind;
     out.user_jacobian = P::has_jacobian;
     out.how = std::string(matrix_norm_name(kind)) + " logarithmic norm of " +
-              (P::has_jacobian ? "the problem's Jacobian" : "a central-difference Jacobian (delta = eps^(1/3) max(1, |y_j|))") +
+              jacobian_source(p) +
               " at " + std::to_string(run.states.size()) + " states of the run (an estimate: mu is not bounded between samples)";
     for (std::size_t k = 0; k < run.states.size(); ++k) {
         const double t = static_cast<double>(run.times[k]);

@@ -6,6 +6,7 @@
 #include <cstddef>
 #include <string>
 #include <string_view>
+#include <type_traits>
 #include <vector>
 
 #include "stepcert/core/state.hpp"
@@ -28,6 +29,13 @@ struct controller_tolerance {
 };
 
 namespace detail {
+/// True for methods whose step depends on earlier steps (they declare `steps` > 1).
+template <class M>
+struct is_multistep : std::false_type {};
+template <class M>
+    requires requires { M::steps; }
+struct is_multistep<M> : std::bool_constant<(M::steps > 1)> {};
+
 // Probe types used only to check the method concepts at compile time.
 struct probe_rhs {
     void operator()(const std::vector<double>&, std::vector<double>&, double) const {}

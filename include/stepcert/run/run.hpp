@@ -140,4 +140,43 @@ auto run_adaptive(const P& p, const M& m, controller_tolerance tol,
     return out;
 }
 
+/// Fixed-step run of a one-step method on a given, possibly non-uniform, grid t0 = times[0] <
+/// times[1] < ... = t1 (the steps a schedule suggests), with the state at every grid time.
+/// Multistep methods are refused: their history assumes one step size.
+template <class T = void, problem_like P, fixed_step_method M>
+auto run_on_grid(const P& p, const M& m, const std::vector<std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>>& times,
+                 const run_options& opt = {}) {
+    using Tr = std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>;
+    using S = rebind_state<typename P::state_type, Tr>;
+    static_assert(!detail::is_multistep<M>::value,
+                  "stepcert::run_on_grid: a multistep method's history assumes one step size; run it with run_uniform.");
+    detail::require_rhs_in<P, Tr>(p);
+    detail::require_separable_if_needed(p, m, "stepcert::run_on_grid");
+    using std::abs;
+    const Tr t0 = static_cast<Tr>(p.t0()), t1 = static_cast<Tr>(p.t1());
+    const Tr slack = 64 * std::numeric_limits<Tr>::epsilon() * (abs(t0) + abs(t1));
+    if (times.size() < 2 || abs(times.front() - t0) > slack || abs(times.back() - t1) > slack)
+        throw invalid_input("stepcert::run_on_grid: the grid must start at t0 and end at t1 of problem '" + p.name() +
+                            "', with at least one step.");
+    for (std::size_t k = 1; k < times.size(); ++k)
+        if (!(times[k] > times[k - 1]))
+            throw invalid_input("stepcert::run_on_grid: the grid times must increase strictly (step " + std::to_string(k) +
+                                " at t = " + detail::time_text(times[k - 1]) + " has length <= 0).");
+    trajectory<S> out;
+    out.times.reserve(times.size());
+    out.states.reserve(times.size());
+    S y = convert_state<S>(p.y0());
+    const typename P::rhs_type local_rhs = p.rhs();  // as in run_uniform
+    counted_rhs<typename P::rhs_type> rhs{&local_rhs, &out.stats.evaluations, opt.max_evaluations};
+    detail::collecting_observer<S> collect{&out, &p.name()};
+    collect(y, times.front());
+    auto ignore = [](const S&, const Tr&) {};
+    for (std::size_t k = 1; k < times.size(); ++k) {
+        m.integrate_uniform(rhs, y, times[k - 1], times[k] - times[k - 1], 1, 1, ignore);
+        collect(y, times[k]);
+    }
+    out.stats.steps = times.size() - 1;
+    return out;
+}
+
 } // namespace stepcert

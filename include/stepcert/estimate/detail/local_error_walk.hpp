@@ -16,13 +16,6 @@
 
 namespace stepcert::detail {
 
-/// True for methods whose step depends on earlier steps (they declare `steps` > 1).
-template <class M>
-struct is_multistep : std::false_type {};
-template <class M>
-    requires requires { M::steps; }
-struct is_multistep<M> : std::bool_constant<(M::steps > 1)> {};
-
 template <class M>
 constexpr void require_one_step_method() {
     static_assert(!is_multistep<M>::value,
