@@ -1,6 +1,7 @@
 #pragma once
 // Umbrella header: the core of stepcert (needs Boost only). Optional integrations
-// (report/json.hpp needs nlohmann_json, testing/gtest.hpp needs GoogleTest) are included separately.
+// (report/json.hpp needs nlohmann_json, testing/gtest.hpp needs GoogleTest, bound/ and transport/
+// need Eigen) are included separately.
 #include "stepcert/core/concepts.hpp"
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/norm.hpp"
@@ -33,7 +34,9 @@
 #include "stepcert/estimate/effectivity.hpp"
 #include "stepcert/estimate/embedded_local_error.hpp"
 #include "stepcert/estimate/local_error_monitor.hpp"
+#include "stepcert/estimate/milne_device.hpp"
 #include "stepcert/estimate/richardson_global.hpp"
 #include "stepcert/estimate/step_doubling.hpp"
 #include "stepcert/estimate/true_global_error.hpp"
 #include "stepcert/estimate/true_local_error.hpp"
+#include "stepcert/estimate/true_multistep_local_error.hpp"

@@ -19,6 +19,7 @@ enum class local_error_estimator {
     step_doubling,    ///< one step of h against two of h/2, scaled by 2^p / (2^p - 1)
     embedded_pair,    ///< h sum (b_i - b_hat_i) k_i: the local error of the lower-order solution
     reference_truth,  ///< one step from the reference state y(t_n), compared with y(t_n + h)
+    milne_device,     ///< Adams PECE: the corrector's local error from the predictor-corrector difference
 };
 
 inline const char* estimator_name(local_error_estimator e) {
@@ -26,6 +27,7 @@ inline const char* estimator_name(local_error_estimator e) {
     case local_error_estimator::step_doubling: return "step doubling";
     case local_error_estimator::embedded_pair: return "embedded pair";
     case local_error_estimator::reference_truth: return "true local error (reference)";
+    case local_error_estimator::milne_device: return "Milne's device (predictor-corrector difference)";
     }
     return "?";
 }

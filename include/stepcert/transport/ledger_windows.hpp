@@ -21,7 +21,7 @@ struct ledger_window {
     double fresh = 0.0;         ///< sum of the window's |tau_j| (local error made there, before transport)
 };
 
-/// `count` windows of equal length over [t0, t1]; a step belongs to the window its start lies in.
+/// `count` windows of equal length over [t0, t1]; a step belongs to the window its midpoint lies in.
 inline std::vector<ledger_window> ledger_windows(const error_ledger& ledger, std::size_t count) {
     if (count == 0) throw invalid_input("stepcert::ledger_windows: ask for at least one window.");
     if (ledger.contributions.size() != ledger.steps.size() || ledger.steps.empty())
@@ -36,7 +36,9 @@ inline std::vector<ledger_window> ledger_windows(const error_ledger& ledger, std
     }
     for (std::size_t j = 0; j < ledger.steps.size(); ++j) {
         const auto& s = ledger.steps[j];
-        const auto w = std::min(count - 1, static_cast<std::size_t>(std::max(0.0, std::floor((s.t - t0) / width))));
+        // By the step's midpoint: a step starting on a window's edge is not sent across it by rounding.
+        const double mid = s.t + 0.5 * s.h - t0;
+        const auto w = std::min(count - 1, static_cast<std::size_t>(std::max(0.0, std::floor(mid / width))));
         out[w].first_step = std::min(out[w].first_step, j);
         ++out[w].step_count;
         out[w].share += s.share;

@@ -21,7 +21,7 @@ constexpr void require_one_step_method() {
     static_assert(!is_multistep<M>::value,
                   "stepcert: this local error estimator restarts the method from a given state at every step; a "
                   "multistep method's step depends on its history, so it cannot be restarted that way. Estimate "
-                  "its local error from its predictor-corrector difference (Milne's device) instead.");
+                  "its local error with milne_local_error_profile (Milne's device: the predictor-corrector difference) instead.");
 }
 
 /// Checks shared by the estimators, then the profile's description. order is the p of the
