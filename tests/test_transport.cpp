@@ -162,8 +162,9 @@ TEST(TransportedGlobalError, EffectivityWithinAcceptanceBand) {
 
 TEST(EquidistributingSchedule, SuggestedGridBeatsTheUniformOneWithTheSameSteps) {
     // Equidistribution of the contributions (common practice, no source). Measured, RK4 with the
-    // same number of steps, true error at t1 (max norm): Kepler n = 400 6.5e-4 -> 1.0e-5 (64x);
-    // rig n = 600 3.6e-10 -> 2.1e-11 (17x). The test asks for at least 4x.
+    // same number of steps and no step over 4x the uniform one (the default cap), true error at
+    // t1 (max norm): Kepler n = 400 6.5e-4 -> 9.9e-6 (65x); rig n = 600 3.6e-10 -> 2.3e-11 (16x).
+    // The test asks for at least 4x.
     auto check = [](const auto& p, std::size_t n) {
         const auto ledger = ledger_of_true_local_errors(p, n);
         const auto schedule = stepcert::equidistributing_schedule(ledger);
@@ -173,6 +174,7 @@ TEST(EquidistributingSchedule, SuggestedGridBeatsTheUniformOneWithTheSameSteps) 
         EXPECT_LT(schedule.predicted_sum, schedule.current_sum);
         EXPECT_LT(schedule.smallest_step, (p.t1() - p.t0()) / static_cast<double>(n));
         EXPECT_GT(schedule.largest_step, (p.t1() - p.t0()) / static_cast<double>(n));
+        EXPECT_LE(schedule.largest_step, 4 * schedule.run_longest_step * (1 + 1e-9));
         const auto uniform = stepcert::run_uniform(p, stepcert::classic_rk4, n);
         const auto scheduled = stepcert::run_on_grid(p, stepcert::classic_rk4, schedule.times);
         EXPECT_EQ(scheduled.states.size(), n + 1);
@@ -191,6 +193,13 @@ TEST(EquidistributingSchedule, SuggestedGridBeatsTheUniformOneWithTheSameSteps) 
     const auto schedule = stepcert::equidistributing_schedule(ledger);
     EXPECT_NEAR(schedule.smallest_step, 0.1, 0.01);
     EXPECT_NEAR(schedule.largest_step, 0.1, 0.01);
+    // A cap of its own, and more steps: both honoured.
+    const auto capped = stepcert::equidistributing_schedule(ledger_of_true_local_errors(kepler, 400), 500, 0.06);
+    EXPECT_EQ(capped.times.size(), 501u);
+    EXPECT_LE(capped.largest_step, 0.06 * (1 + 1e-9));
+    // 40 steps of at most 0.05 cannot cover [0, 4].
+    EXPECT_THROW((void)stepcert::equidistributing_schedule(ledger, 40, 0.05), stepcert::invalid_input);
+    EXPECT_THROW((void)stepcert::equidistributing_schedule(ledger, 40, -1.0), stepcert::invalid_input);
 }
 
 TEST(TransportInput, BadInputsAreTypedErrors) {

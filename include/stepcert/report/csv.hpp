@@ -2,37 +2,17 @@
 // CSV export of an order study's levels: one header line, then one row per level.
 // Numbers use round-trip precision; NaN is an empty field, infinities are "inf"/"-inf";
 // text fields are quoted when they contain a comma, a quote or a line break (RFC 4180 style).
-#include <cmath>
-#include <cstdio>
 #include <ostream>
 #include <sstream>
 #include <string>
 
+#include "stepcert/report/detail/csv_fields.hpp"
 #include "stepcert/study/study_result.hpp"
 
 namespace stepcert {
 
 inline constexpr const char* study_csv_header =
     "level,h,tolerance,steps,rejected,evaluations,error_final,error_grid,local_order,round_off_floor,status,note";
-
-namespace detail {
-inline std::string csv_number(double x) {
-    if (std::isnan(x)) return "";
-    if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-    char buf[40];
-    std::snprintf(buf, sizeof buf, "%.17g", x);
-    return buf;
-}
-inline std::string csv_text(const std::string& s) {
-    if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
-    std::string out = "\"";
-    for (char c : s) {
-        if (c == '"') out += '"';
-        out += c;
-    }
-    return out + "\"";
-}
-} // namespace detail
 
 /// Writes the header line and one row per level.
 inline void write_study_csv(std::ostream& os, const order_study_result& r) {

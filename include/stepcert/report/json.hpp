@@ -2,7 +2,7 @@
 // JSON export and import of an order study (optional: needs nlohmann_json).
 // Document layout: {"format": "stepcert.order_study", "format_version": 1, ...fields..., "levels": [...]}.
 // JSON has no NaN or infinity: NaN is written as null, +/-infinity as the strings "inf"/"-inf",
-// so a study reads back exactly (doubles are written with round-trip precision).
+// so a study reads back exactly (report/detail/json_numbers.hpp; doubles with round-trip precision).
 #include <cmath>
 #include <limits>
 #include <string>
@@ -10,6 +10,7 @@
 #include <nlohmann/json.hpp>
 
 #include "stepcert/core/error.hpp"
+#include "stepcert/report/detail/json_numbers.hpp"
 #include "stepcert/report/study_table.hpp"
 #include "stepcert/study/study_result.hpp"
 
@@ -17,37 +18,6 @@ namespace stepcert {
 
 inline constexpr const char* study_json_format = "stepcert.order_study";
 inline constexpr int study_json_version = 1;
-
-namespace detail {
-
-inline nlohmann::json json_number(double x) {
-    if (std::isnan(x)) return nullptr;
-    if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-    return x;
-}
-
-inline double number_from_json(const nlohmann::json& j, const char* key) {
-    const auto& v = j.at(key);
-    if (v.is_null()) return std::numeric_limits<double>::quiet_NaN();
-    if (v.is_string()) {
-        const auto s = v.get<std::string>();
-        if (s == "inf") return std::numeric_limits<double>::infinity();
-        if (s == "-inf") return -std::numeric_limits<double>::infinity();
-        throw invalid_input(std::string("stepcert: study JSON field '") + key + "' holds the string '" + s +
-                            "', expected a number, null, \"inf\" or \"-inf\".");
-    }
-    return v.get<double>();
-}
-
-template <class Enum, std::size_t N>
-Enum enum_from_json(const nlohmann::json& j, const char* key, const Enum (&all)[N]) {
-    const auto s = j.at(key).get<std::string>();
-    for (Enum e : all)
-        if (to_string(e) == s) return e;
-    throw invalid_input(std::string("stepcert: study JSON field '") + key + "' has the unknown value '" + s + "'.");
-}
-
-} // namespace detail
 
 /// The study as a JSON document.
 inline nlohmann::json study_to_json(const order_study_result& r) {
