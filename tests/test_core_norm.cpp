@@ -2,6 +2,7 @@
 // taken in the wider of the two scalar types.
 #include <array>
 #include <cmath>
+#include <cstddef>
 #include <limits>
 #include <type_traits>
 #include <vector>
@@ -35,6 +36,30 @@ TEST(WeightedNorm, NonFiniteNeverCountsAsSmall) {
     EXPECT_EQ(weighted_norm::absolute_max()(std::array<double, 2>{nan, 1.0}, ref), inf);
     EXPECT_EQ(weighted_norm::absolute_max()(std::array<double, 2>{1.0, inf}, ref), inf);
     EXPECT_EQ((weighted_norm{1.0, 0.0, norm_kind::rms})(ref, std::array<double, 2>{1.0, nan}), inf);
+}
+
+TEST(WeightedNorm, FixedWeightsPathAgreesWithTheGeneralOneAtEveryLength) {
+    // of_difference with rtol = 0 takes an unrolled path (four accumulators, remainder loop):
+    // every length 1..11 and every position of the largest entry or of a NaN must give what the
+    // definition gives (common practice, no source: max |d| / atol and sqrt(mean d^2) / atol).
+    const double nan = std::numeric_limits<double>::quiet_NaN(), inf = std::numeric_limits<double>::infinity();
+    for (std::size_t n = 1; n <= 11; ++n) {
+        for (std::size_t at = 0; at < n; ++at) {
+            std::vector<double> d(n), scale(n, 1.0);
+            for (std::size_t i = 0; i < n; ++i) d[i] = (i % 2 ? -1.0 : 1.0) * 0.25 * static_cast<double>(i + 1) / static_cast<double>(n);
+            d[at] = -3.0;
+            double sum = 0.0;
+            for (double x : d) sum += x * x;
+            EXPECT_EQ((weighted_norm{2.0, 0.0, norm_kind::max}).of_difference(d, scale), 1.5) << n << " " << at;
+            EXPECT_DOUBLE_EQ((weighted_norm{2.0, 0.0, norm_kind::rms}).of_difference(d, scale),
+                             std::sqrt(sum / static_cast<double>(n)) / 2.0);
+            d[at] = nan;
+            EXPECT_EQ((weighted_norm{2.0, 0.0, norm_kind::max}).of_difference(d, scale), inf) << n << " " << at;
+            EXPECT_EQ((weighted_norm{2.0, 0.0, norm_kind::rms}).of_difference(d, scale), inf) << n << " " << at;
+            d[at] = -inf;
+            EXPECT_EQ((weighted_norm{2.0, 0.0, norm_kind::max}).of_difference(d, scale), inf) << n << " " << at;
+        }
+    }
 }
 
 TEST(WeightedNorm, SubtractsInTheWiderType) {
