@@ -1,7 +1,8 @@
 // Cost of watching the local error of a production run: odeint's integrate_n_steps with
 // Cash–Karp 5(4) and Dormand–Prince 5(4), plain (do_step without error estimate), with the error
 // estimate computed and dropped (do_step with xerr), and through stepcert::local_error_monitor
-// (do_step with xerr, its weighted norm and one record per step).
+// (do_step with xerr, its weighted norm and one record per step); and Adams–Bashforth–Moulton 4,
+// odeint's own against stepcert::adams_milne_monitor (the same steps plus Milne's estimate).
 // Problems (our own): a two-cart spring chain (4 unknowns, a few flops per evaluation), a 64-node
 // thermal rod of a battery pack cooled at both ends (64 unknowns, a few flops per unknown), and the
 // catalogue's small satellite with its J2 term (6 unknowns, square roots and divisions: a right-hand
@@ -23,8 +24,10 @@
 #include <boost/numeric/odeint/integrate/integrate_n_steps.hpp>
 #include <boost/numeric/odeint/stepper/runge_kutta_cash_karp54.hpp>
 #include <boost/numeric/odeint/stepper/runge_kutta_dopri5.hpp>
+#include "stepcert/methods/adams_bashforth_moulton.hpp"
 
 #include "stepcert/estimate/local_error_monitor.hpp"
+#include "stepcert/estimate/milne_monitor.hpp"
 #include "stepcert/problems/small_satellite.hpp"
 
 namespace {
@@ -121,6 +124,23 @@ void monitored(benchmark::State& bs) {
     }
 }
 
+/// Adams–Bashforth–Moulton 4 with Milne's device (adams_milne_monitor) against odeint's own
+/// adams_bashforth_moulton<4> (plain<Problem, odeint ABM>).
+template <class Problem>
+void milne_monitored(benchmark::State& bs) {
+    Problem f;
+    benchmark::DoNotOptimize(f);
+    for (auto _ : bs) {
+        auto y = Problem::start();
+        stepcert::local_error_profile log;
+        log.steps.reserve(steps);
+        stepcert::adams_milne_monitor<4, typename Problem::state_type> monitor(log);
+        odeint::integrate_n_steps(monitor, f, y, 0.0, Problem::t1 / steps, steps);
+        benchmark::DoNotOptimize(y);
+        benchmark::DoNotOptimize(log.steps.back());
+    }
+}
+
 using ck = odeint::runge_kutta_cash_karp54<S>;
 using dp = odeint::runge_kutta_dopri5<S>;
 using ck6 = odeint::runge_kutta_cash_karp54<A6>;
@@ -138,6 +158,12 @@ BENCHMARK(monitored<satellite, ck6>)->Name("satellite/cash_karp54/monitored")->U
 BENCHMARK(plain<satellite, dp6>)->Name("satellite/dopri5/plain")->Unit(benchmark::kMillisecond);
 BENCHMARK(estimate_dropped<satellite, dp6>)->Name("satellite/dopri5/estimate_dropped")->Unit(benchmark::kMillisecond);
 BENCHMARK(monitored<satellite, dp6>)->Name("satellite/dopri5/monitored")->Unit(benchmark::kMillisecond);
+using abm4 = stepcert::odeint_stepper::adams_bashforth_moulton<4, S>;
+using abm4_6 = stepcert::odeint_stepper::adams_bashforth_moulton<4, A6>;
+BENCHMARK(plain<thermal_rod, abm4>)->Name("rod/abm4/plain")->Unit(benchmark::kMillisecond);
+BENCHMARK(milne_monitored<thermal_rod>)->Name("rod/abm4/milne_monitored")->Unit(benchmark::kMillisecond);
+BENCHMARK(plain<satellite, abm4_6>)->Name("satellite/abm4/plain")->Unit(benchmark::kMillisecond);
+BENCHMARK(milne_monitored<satellite>)->Name("satellite/abm4/milne_monitored")->Unit(benchmark::kMillisecond);
 BENCHMARK(plain<spring_chain, ck>)->Name("chain/cash_karp54/plain")->Unit(benchmark::kMillisecond);
 BENCHMARK(estimate_dropped<spring_chain, ck>)->Name("chain/cash_karp54/estimate_dropped")->Unit(benchmark::kMillisecond);
 BENCHMARK(monitored<spring_chain, ck>)->Name("chain/cash_karp54/monitored")->Unit(benchmark::kMillisecond);

@@ -3,6 +3,7 @@
 // against the exact solution at the grid times (true_global_error).
 // Problems with exact solutions: Kepler e = 0.5 (DETEST class D, Hull et al., SIAM J. Numer.
 // Anal. 9 (1972)) and the linear 3x3 system (exact by its eigen-decomposition).
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -15,12 +16,14 @@
 #include <boost/numeric/odeint/integrate/integrate_n_steps.hpp>
 #include <boost/numeric/odeint/stepper/runge_kutta_cash_karp54.hpp>
 #include <boost/numeric/odeint/stepper/runge_kutta_dopri5.hpp>
+#include <boost/numeric/odeint/stepper/runge_kutta4.hpp>
 
 #include "stepcert/estimate/effectivity.hpp"
 #include "stepcert/estimate/embedded_local_error.hpp"
 #include "stepcert/estimate/local_error_monitor.hpp"
 #include "stepcert/estimate/richardson_global.hpp"
 #include "stepcert/estimate/step_doubling.hpp"
+#include "stepcert/estimate/step_doubling_monitor.hpp"
 #include "stepcert/estimate/true_global_error.hpp"
 #include "stepcert/estimate/true_local_error.hpp"
 #include "stepcert/methods/adams_bashforth_moulton.hpp"
@@ -147,6 +150,43 @@ TEST(Monitor, RecordsOdeintsOwnErrorEstimateInsideItsIntegrateFunctions) {
     odeint::integrate_n_steps(m2, nan_rhs, z, 0.0, 0.1, 2);
     ASSERT_EQ(bad.steps.size(), 2u);
     EXPECT_TRUE(std::isinf(bad.largest()));
+}
+
+TEST(Monitor, StepDoublingInsideOdeintsIntegrateFunctions) {
+    // The step-doubling monitor leaves odeint's run unchanged (Boost.Odeint as reference library)
+    // and records what step_doubling_profile records for the same run: for runge_kutta4 (the
+    // same RK4 as stepcert's classic_rk4) and for the first-same-as-last dopri5, whose half-step
+    // copy is reset before each pair (so its run is still odeint's own).
+    using S = std::array<double, 4>;
+    const std::size_t n = 400;
+    const double h = 20.0 / n;
+    stepcert::local_error_profile log;
+    stepcert::step_doubling_monitor<odeint::runge_kutta4<S>> monitor(log);
+    S y = kepler.y0(), plain = y;
+    odeint::integrate_n_steps(monitor, kepler.rhs(), y, 0.0, h, n);
+    // The plain runs step by hand: passing a fresh std::array stepper by value into
+    // integrate_n_steps makes g++ 12 warn about copying its never-written scratch.
+    odeint::runge_kutta4<S> rk4;
+    for (std::size_t k = 0; k < n; ++k) rk4.do_step(kepler.rhs(), plain, static_cast<double>(k) * h, h);
+    EXPECT_EQ(y, plain);
+    EXPECT_EQ(log.power, 5);
+    const auto profile = stepcert::step_doubling_profile(kepler, stepcert::classic_rk4, n);
+    ASSERT_EQ(log.steps.size(), n);
+    for (std::size_t j = 0; j < n; ++j)
+        EXPECT_NEAR(log.steps[j].estimate, profile.steps[j].estimate, 1e-9 * profile.steps[j].estimate + 1e-18) << "step " << j;
+    stepcert::local_error_profile fsal_log;
+    stepcert::step_doubling_monitor<odeint::runge_kutta_dopri5<S>> fsal(fsal_log);
+    S z = kepler.y0(), z_plain = z;
+    odeint::integrate_n_steps(fsal, kepler.rhs(), z, 0.0, h, n);
+    odeint::runge_kutta_dopri5<S> dopri5;
+    for (std::size_t k = 0; k < n; ++k) dopri5.do_step(kepler.rhs(), z_plain, static_cast<double>(k) * h, h);
+    EXPECT_EQ(z, z_plain);
+    EXPECT_EQ(fsal_log.power, 6);  // the propagated fifth-order solution
+    const auto fsal_profile = stepcert::step_doubling_profile(kepler, stepcert::dormand_prince54, n);
+    ASSERT_EQ(fsal_log.steps.size(), n);
+    for (std::size_t j = 0; j < n; ++j)
+        EXPECT_NEAR(fsal_log.steps[j].estimate, fsal_profile.steps[j].estimate, 1e-6 * fsal_profile.steps[j].estimate + 1e-18)
+            << "step " << j;
 }
 
 /// Explicit Euler declaring order 0, built without the factory (which would refuse it).

@@ -4,6 +4,7 @@
 // the typed errors. Problems with exact solutions: Kepler e = 0.5 (DETEST class D, Hull et al.,
 // SIAM J. Numer. Anal. 9 (1972)) and the linear 3x3 system (exact by its eigen-decomposition).
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <concepts>
 #include <cstddef>
@@ -17,9 +18,11 @@
 #include <gtest/gtest.h>
 
 #include <boost/multiprecision/cpp_int.hpp>
+#include <boost/numeric/odeint/integrate/integrate_n_steps.hpp>
 
 #include "stepcert/estimate/effectivity.hpp"
 #include "stepcert/estimate/milne_device.hpp"
+#include "stepcert/estimate/milne_monitor.hpp"
 #include "stepcert/estimate/true_multistep_local_error.hpp"
 #include "stepcert/methods/adams_bashforth_moulton.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
@@ -155,6 +158,43 @@ TEST(MilnePeceRun, ReproducesOdeintsAdamsBashforthMoulton) {
     expect_same_run_as_odeint<2>(200);
     expect_same_run_as_odeint<4>(200);
     expect_same_run_as_odeint<5>(200);
+}
+
+template <std::size_t Steps>
+void expect_monitor_matches_profile_and_odeint(std::size_t n) {
+    // Inside odeint's own integrate_n_steps, the monitor takes odeint's adams_bashforth_moulton
+    // steps bit for bit (Boost.Odeint as reference library) and records what
+    // milne_local_error_profile records for the same run.
+    using S = std::array<double, 4>;
+    const double h = 20.0 / static_cast<double>(n);
+    stepcert::local_error_profile log;
+    stepcert::adams_milne_monitor<Steps, S> monitor(log);
+    S y = kepler.y0(), plain = y;
+    odeint::integrate_n_steps(monitor, kepler.rhs(), y, 0.0, h, n);
+    odeint::integrate_n_steps(stepcert::odeint_stepper::adams_bashforth_moulton<Steps, S>(), kepler.rhs(), plain, 0.0, h, n);
+    EXPECT_EQ(y, plain) << "Steps = " << Steps;
+    const auto profile = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<Steps>, n);
+    ASSERT_EQ(log.steps.size(), profile.steps.size());
+    EXPECT_EQ(log.power, profile.power);
+    EXPECT_EQ(log.estimator, stepcert::local_error_estimator::milne_device);
+    for (std::size_t j = 0; j < log.steps.size(); ++j) {
+        EXPECT_NEAR(log.steps[j].t, profile.steps[j].t, 1e-12);
+        EXPECT_EQ(log.steps[j].estimate, profile.steps[j].estimate) << "step " << j;
+    }
+}
+
+TEST(MilneMonitor, InsideOdeintsIntegrateFunctionsSameStepsAndRecords) {
+    expect_monitor_matches_profile_and_odeint<2>(400);
+    expect_monitor_matches_profile_and_odeint<4>(400);
+    expect_monitor_matches_profile_and_odeint<5>(400);
+    // A changed step is refused (fixed Adams coefficients), not silently mis-stepped.
+    using S = std::array<double, 4>;
+    stepcert::local_error_profile log;
+    stepcert::adams_milne_monitor<4, S> monitor(log);
+    S y = kepler.y0();
+    monitor.do_step(kepler.rhs(), y, 0.0, 0.01);
+    EXPECT_THROW(monitor.do_step(kepler.rhs(), y, 0.01, 0.02), stepcert::invalid_input);
+    EXPECT_THROW((stepcert::adams_milne_monitor<4, S>(log, stepcert::weighted_norm{0.0, 0.0})), stepcert::invalid_input);
 }
 
 // ---- Effectivity --------------------------------------------------------------------------------

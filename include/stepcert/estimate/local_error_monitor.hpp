@@ -11,7 +11,6 @@
 #include <cmath>
 #include <cstddef>
 #include <string>
-#include <utility>
 
 #include <boost/numeric/odeint/stepper/stepper_categories.hpp>
 
@@ -37,14 +36,19 @@ public:
 
     /// Records into `log` (which must outlive the monitor and its copies), measured in `norm`
     /// relative to the state after each step.
-    explicit local_error_monitor(local_error_profile& log, weighted_norm norm = {}, ErrorStepper stepper = ErrorStepper())
-        : stepper_(std::move(stepper)), log_(&log) {
+    explicit local_error_monitor(local_error_profile& log, weighted_norm norm = {}) : log_(&log) {
         norm.validate();
         log.estimator = local_error_estimator::embedded_pair;
         log.order = static_cast<int>(ErrorStepper::error_order_value);
         log.power = log.order + 1;
         log.norm = norm;
     }
+
+    /// odeint passes steppers by value. A copy starts with a fresh stepper: an explicit error
+    /// stepper holds only scratch (and, first same as last, a derivative it recomputes when fresh),
+    /// and copying scratch that was never written is what g++ warns about.
+    local_error_monitor(const local_error_monitor& other) : log_(other.log_) {}
+    local_error_monitor& operator=(const local_error_monitor&) = delete;
 
     order_type order() const { return stepper_.order(); }
     ErrorStepper& stepper() { return stepper_; }
