@@ -4,6 +4,7 @@
 #include <array>
 #include <cmath>
 #include <cstddef>
+#include <iostream>
 #include <limits>
 #include <string>
 #include <vector>
@@ -125,6 +126,18 @@ TEST(TransportedBounds, NeverBelowTheTrueErrorAndTheLogNormOneIsFarTighter) {
         EXPECT_LE(by_mu.bound[j], by_lip.bound[j]);
     }
     EXPECT_GE(by_lip.at_end(), 10 * by_mu.at_end());
+    // Their effectivity (bound / true error) at every step end: at least 1 for a bound.
+    const auto eff_mu = stepcert::effectivity(by_mu, truth);
+    const auto eff_lip = stepcert::effectivity(by_lip, truth);
+    EXPECT_EQ(eff_mu.counted, n);
+    EXPECT_GE(eff_mu.smallest, 1.0);
+    EXPECT_GE(eff_lip.smallest, eff_mu.smallest);
+    std::cout << "bound effectivity, log norm " << eff_mu.smallest << " .. " << eff_mu.largest << ", Lipschitz "
+              << eff_lip.smallest << " .. " << eff_lip.largest << "\n";
+    stepcert::global_error_options other_grid = go;
+    other_grid.grid_points = 3;  // no longer a grid of step ends of a 100-step run
+    EXPECT_THROW((void)stepcert::effectivity(by_mu, stepcert::true_global_error(rod, stepcert::classic_rk4, 99, other_grid)),
+                 stepcert::invalid_input);
     // The log-norm bound follows only the slowest decay (mu = lambda_1), while the error's fast
     // modes die out: measured 684x the true error at t = 1 (and 10^15 times below the Lipschitz one).
     EXPECT_LE(by_mu.at_end(), 1000 * truth.estimate.back());

@@ -24,6 +24,8 @@
 #include <vector>
 
 #include "stepcert/core/error.hpp"
+#include "stepcert/estimate/effectivity.hpp"
+#include "stepcert/estimate/global_error.hpp"
 #include "stepcert/estimate/local_error.hpp"
 
 namespace stepcert {
@@ -97,6 +99,24 @@ inline global_error_bound lipschitz_error_bound(const local_error_profile& local
 /// The bound with an upper bound mu of the logarithmic norm of the Jacobian (any sign).
 inline global_error_bound log_norm_error_bound(const local_error_profile& local, double mu, bool given = true) {
     return transported_error_bound(local, {growth_kind::logarithmic_norm, mu, given});
+}
+
+/// Effectivity of a bound against the true global error (true_global_error) at the truth's grid
+/// times, each of which must be one of the bound's step ends: bound / true error, which is at
+/// least 1 wherever the bound holds; how far above 1 says how pessimistic it is.
+inline effectivity_summary effectivity(const global_error_bound& bound, const global_error_estimate& truth, double floor = 0.0) {
+    const std::string who = "stepcert::effectivity: ";
+    detail::check_floor(floor, who);
+    std::vector<double> at;
+    std::size_t k = 0;
+    for (double t : truth.times) {
+        while (k < bound.times.size() && bound.times[k] < t - 1e-9 * std::max(1.0, std::abs(t))) ++k;
+        if (k == bound.times.size() || std::abs(bound.times[k] - t) > 1e-9 * std::max(1.0, std::abs(t)))
+            throw invalid_input(who + "the true error's time " + std::to_string(t) +
+                                " is not a step end of the bound; compare a bound and a truth of the same run.");
+        at.push_back(bound.bound[k]);
+    }
+    return detail::ratio_summary(at, truth.estimate, floor);
 }
 
 } // namespace stepcert
