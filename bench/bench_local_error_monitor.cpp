@@ -38,7 +38,7 @@ using A6 = std::array<double, 6>;
 /// wall -k1- m1 -k2- m2 -k3- wall, light damping.
 struct spring_chain {
     using state_type = S;
-    double m1 = 1.5, m2 = 0.8, k1 = 40.0, k2 = 25.0, k3 = 60.0, c = 0.3;
+    static constexpr double m1 = 1.5, m2 = 0.8, k1 = 40.0, k2 = 25.0, k3 = 60.0, c = 0.3;
     [[gnu::noinline]] void operator()(const S& y, S& d, double) const {
         const double stretch = y[1] - y[0];
         d[0] = y[2];
@@ -54,7 +54,7 @@ struct spring_chain {
 /// under load): T_i' = a (T_(i-1) - 2 T_i + T_(i+1)) + q (1 + 0.01 T_i), ends held at 0.
 struct thermal_rod {
     using state_type = S;
-    double a = 40.0, q = 2.0;
+    static constexpr double a = 40.0, q = 2.0;
     [[gnu::noinline]] void operator()(const S& y, S& d, double) const {
         const std::size_t n = y.size();
         for (std::size_t i = 0; i < n; ++i) {
@@ -73,14 +73,20 @@ struct thermal_rod {
 /// Three orbits of the catalogue's satellite (period about 8.8 time units).
 struct satellite {
     using state_type = A6;
-    stepcert::problems::small_satellite_rhs<double> f;
-    [[gnu::noinline]] void operator()(const A6& y, A6& d, double t) const { f(y, d, t); }
+    static const stepcert::problems::small_satellite_rhs<double>& model() {
+        static const stepcert::problems::small_satellite_rhs<double> f;
+        return f;
+    }
+    [[gnu::noinline]] void operator()(const A6& y, A6& d, double t) const { model()(y, d, t); }
     static A6 start() { return stepcert::problems::small_satellite_initial_state<double>(); }
     static constexpr double t1 = 26.0;
 };
 
 // Every right-hand side above is kept out of line ([[gnu::noinline]]), as a model's usually is:
-// inlined into some variants and not into others, the same work measured up to 2x apart.
+// inlined into some variants and not into others, the same work measured up to 2x apart. Their
+// parameters live in static storage, not in the functor: odeint copies the functor onto the stack,
+// and there, depending on each variant's frame layout, loads of the parameters falsely depended on
+// stores to the state 4 KiB away (the satellite measured 0.9 or 1.4 ms for the same run, by variant).
 constexpr std::size_t steps = 5000;
 
 template <class Problem, class Stepper>

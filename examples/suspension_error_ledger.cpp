@@ -5,10 +5,12 @@
 // error comes from. It then suggests the step schedule that spreads the contributions evenly,
 // and runs it. A 24-digit multiprecision reference checks both: the transported estimate against
 // the true error, and the suggested grid's true error against the uniform one's.
-//   suspension_error_ledger [--steps N] [--end T] [--windows W]
+//   suspension_error_ledger [--steps N] [--end T] [--windows W] [--json FILE] [--csv FILE]
+// --json writes the whole ledger (stepcert.error_ledger), --csv its steps, one row per step.
 #include <algorithm>
 #include <cstddef>
 #include <cstdio>
+#include <fstream>
 #include <string>
 #include <vector>
 
@@ -20,7 +22,9 @@
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/problems/suspension_rig.hpp"
 #include "stepcert/reference/reference_solution.hpp"
-#include "stepcert/report/study_table.hpp"
+#include "stepcert/report/estimate_caution.hpp"
+#include "stepcert/report/ledger_csv.hpp"
+#include "stepcert/report/ledger_json.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/transport/equidistributing_schedule.hpp"
 #include "stepcert/transport/error_ledger.hpp"
@@ -34,6 +38,9 @@ int main(int argc, char** argv) {
     app.add_option("--steps", steps, "uniform RK4 steps on [0, end]")->check(CLI::PositiveNumber);
     app.add_option("--end", end, "final time in seconds (the bump is centred at 0.5 s)")->check(CLI::PositiveNumber);
     app.add_option("--windows", windows, "time windows of the ledger summary")->check(CLI::PositiveNumber);
+    std::string json_path, csv_path;
+    app.add_option("--json", json_path, "write the ledger as JSON to this file");
+    app.add_option("--csv", csv_path, "write the ledger's steps as CSV to this file");
     CLI11_PARSE(app, argc, argv);
     try {
         using namespace stepcert;
@@ -82,7 +89,14 @@ int main(int argc, char** argv) {
                     schedule.largest_step);
         std::printf("true error at t1: uniform %.3e, suggested %.3e (%.1fx smaller)\n", before, after, before / after);
         std::printf("(%s)\n\n", schedule.how.c_str());
-        std::printf("%s\n", std::string(study_caution).c_str());
+        std::printf("%s\n", std::string(estimate_caution).c_str());
+        auto write = [](const std::string& path, const std::string& text) {
+            std::ofstream out(path);
+            out << text;
+            if (!out) throw invalid_input("cannot write '" + path + "'; check the folder exists and is writable.");
+        };
+        if (!json_path.empty()) write(json_path, to_json(ledger).dump(1) + "\n");
+        if (!csv_path.empty()) write(csv_path, ledger_csv(ledger));
     } catch (const stepcert::error& e) {
         std::fprintf(stderr, "suspension_error_ledger: %s\n", e.what());
         return 1;

@@ -15,7 +15,9 @@ namespace stepcert {
 /// The caution every study report carries.
 inline constexpr std::string_view study_caution =
     "caution: this concerns discretization error only (not model, data or round-off error in general); "
-    "an observed order is estimated from finitely many runs, not proven.";
+    "an observed order is estimated from finitely many runs, not proven; where results feed safety-relevant "
+    "decisions, follow the verification-and-validation standard of the field and have them reviewed by a licensed "
+    "professional.";
 
 namespace detail {
 inline std::string table_number(double x, const char* fmt = "%.3e") {

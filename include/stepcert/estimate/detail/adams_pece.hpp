@@ -77,16 +77,19 @@ template <std::size_t Steps, class Rhs, class S, class T>
 void adams_pece_step(Rhs& rhs, const adams_pece_weights<Steps, T>& w, const S& y, const derivative_history<S, Steps>& f,
                      const T& t, const T& h, S& predicted, S& slope, S& corrected) {
     const std::size_t size = state_size(y);
+    // The history's ring positions once per step, not once per component (the sums are unchanged).
+    std::array<const S*, Steps> past;
+    for (std::size_t k = 0; k < Steps; ++k) past[k] = &f[k];
     for (std::size_t i = 0; i < size; ++i) {
         T sum = y[i];
-        for (std::size_t k = 0; k < Steps; ++k) sum += w.predictor[k] * f[k][i];
+        for (std::size_t k = 0; k < Steps; ++k) sum += w.predictor[k] * (*past[k])[i];
         predicted[i] = sum;
     }
     rhs(std::as_const(predicted), slope, t + h);
     for (std::size_t i = 0; i < size; ++i) {
         T sum = y[i];
         sum += w.corrector[0] * slope[i];
-        for (std::size_t k = 1; k < Steps; ++k) sum += w.corrector[k] * f[k - 1][i];
+        for (std::size_t k = 1; k < Steps; ++k) sum += w.corrector[k] * (*past[k - 1])[i];
         corrected[i] = sum;
     }
 }
