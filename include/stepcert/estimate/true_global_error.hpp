@@ -14,6 +14,7 @@
 #include "stepcert/estimate/richardson_global.hpp"
 #include "stepcert/methods/method.hpp"
 #include "stepcert/reference/exact_evaluation.hpp"
+#include "stepcert/reference/reference_grid.hpp"
 #include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/run/run.hpp"
 
@@ -60,10 +61,7 @@ global_error_estimate true_global_error(const P& p, const M& m, std::size_t n, c
             record(j, exact);
         }
     } else {
-        const auto ref = reference_solution<Real>(p, reference_digits, uniform_times{G});
-        if (!ref.vouches_requested())
-            throw accuracy_unreachable(who + "the reference of problem '" + p.name() + "' vouches for fewer than " +
-                                       std::to_string(reference_digits) + " digits: " + ref.how);
+        const auto ref = detail::vouched_uniform_reference<Real>(p, reference_digits, G, "stepcert::true_global_error");
         for (std::size_t j = 1; j <= G; ++j) record(j, ref.states[j - 1]);
     }
     return out;

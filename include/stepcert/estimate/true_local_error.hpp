@@ -70,11 +70,7 @@ template <class T = void, class Real = default_reference_real, problem_like P, f
 local_error_profile true_local_error_profile(const P& p, const M& m, std::size_t n, int digits = 24,
                                              const local_error_options& opt = {}) {
     if (n == 0) throw invalid_input("stepcert::true_local_error_profile: the number of steps must be at least 1.");
-    const auto reference = reference_solution<Real>(p, digits, uniform_times{n});
-    if (!reference.vouches_requested())
-        throw accuracy_unreachable("stepcert::true_local_error_profile: the reference of problem '" + p.name() +
-                                   "' vouches for " + std::to_string(reference.vouched_digits) + " digits, fewer than the " +
-                                   std::to_string(digits) + " asked: " + reference.how);
+    const auto reference = detail::vouched_uniform_reference<Real>(p, digits, n, "stepcert::true_local_error_profile");
     return true_local_error_profile<T>(p, m, n, reference, opt);
 }
 

@@ -78,11 +78,7 @@ template <class T = void, class Real = default_reference_real, problem_like P, s
 local_error_profile true_multistep_local_error_profile(const P& p, adams_bashforth_moulton_method<Steps> m, std::size_t n,
                                                        int digits = 24, const local_error_options& opt = {}) {
     detail::require_multistep_steps(n, Steps, m.name(), "stepcert::true_multistep_local_error_profile");
-    const auto reference = reference_solution<Real>(p, digits, uniform_times{n});
-    if (!reference.vouches_requested())
-        throw accuracy_unreachable("stepcert::true_multistep_local_error_profile: the reference of problem '" + p.name() +
-                                   "' vouches for " + std::to_string(reference.vouched_digits) + " digits, fewer than the " +
-                                   std::to_string(digits) + " asked: " + reference.how);
+    const auto reference = detail::vouched_uniform_reference<Real>(p, digits, n, "stepcert::true_multistep_local_error_profile");
     return true_multistep_local_error_profile<T>(p, m, n, reference, opt);
 }
 

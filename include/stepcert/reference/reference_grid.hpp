@@ -13,6 +13,7 @@
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/state.hpp"
 #include "stepcert/reference/reference_result.hpp"
+#include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/run/run.hpp"
 
 namespace stepcert::detail {
@@ -40,6 +41,18 @@ std::vector<std::size_t> reference_grid_indices(const P& p, const Ref& shared, s
         idx.push_back(i);
     }
     return idx;
+}
+
+/// The reference on the uniform grid of G points with `digits` vouched digits, in Real; throws
+/// accuracy_unreachable, saying why, when it cannot vouch for them.
+template <class Real, class P>
+auto vouched_uniform_reference(const P& p, int digits, std::size_t G, std::string_view who) {
+    auto reference = reference_solution<Real>(p, digits, uniform_times{G});
+    if (!reference.vouches_requested())
+        throw accuracy_unreachable(std::string(who) + ": the reference of problem '" + p.name() + "' vouches for " +
+                                   std::to_string(reference.vouched_digits) + " digits, fewer than the " +
+                                   std::to_string(digits) + " asked: " + reference.how);
+    return reference;
 }
 
 } // namespace stepcert::detail
