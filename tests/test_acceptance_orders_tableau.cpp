@@ -24,8 +24,8 @@ using stepcert::tolerance_ladder;
 using stepcert::testing::converges_at_declared_order;
 namespace tb = stepcert::tableaus;
 
-const auto kepler = stepcert::problems::kepler(0.5, 20.0);
-const auto linear = stepcert::problems::linear_system(4.0);
+const auto tableau_kepler = stepcert::problems::kepler(0.5, 20.0);
+const auto tableau_linear = stepcert::problems::linear_system(4.0);
 
 template <class P, class M, class Ladder>
 stepcert::order_study_result expect_declared_order(const P& p, const M& m, Ladder ladder,
@@ -49,10 +49,10 @@ TEST(AcceptanceOrdersTableau, FirstAndSecondOrder) {
     // Measured: Euler 0.995 / 1.018; Heun 2.030 / 2.003; Ralston 2.111 / 2.003; midpoint 1.959 / 2.003.
     expect_declared_order(stepcert::problems::kepler(0.5, 2.0), stepcert::tableau_method(tb::explicit_euler<cpp_rational>()),
                           step_ladder{500, 2.0, 7});
-    expect_declared_order(linear, stepcert::tableau_method(tb::explicit_euler<cpp_rational>()), step_ladder{64, 2.0, 8});
+    expect_declared_order(tableau_linear, stepcert::tableau_method(tb::explicit_euler<cpp_rational>()), step_ladder{64, 2.0, 8});
     for (const auto& tab : {tb::heun2<cpp_rational>(), tb::ralston2<cpp_rational>(), tb::explicit_midpoint<cpp_rational>()}) {
-        expect_declared_order(kepler, stepcert::tableau_method(tab), step_ladder{2000, 2.0, 6});
-        expect_declared_order(linear, stepcert::tableau_method(tab), step_ladder{32, 2.0, 8});
+        expect_declared_order(tableau_kepler, stepcert::tableau_method(tab), step_ladder{2000, 2.0, 6});
+        expect_declared_order(tableau_linear, stepcert::tableau_method(tab), step_ladder{32, 2.0, 8});
     }
 }
 
@@ -60,12 +60,12 @@ TEST(AcceptanceOrdersTableau, ThirdAndFourthOrder) {
     // Measured: Kutta 3.001 / 3.006; SSP RK3 2.999 / 3.006; Bogacki–Shampine 3.008 / 3.006;
     // RK4 4.155 / 4.016; 3/8 rule 4.158 / 4.016.
     for (const auto& tab : {tb::kutta3<cpp_rational>(), tb::ssp_rk3<cpp_rational>(), tb::bogacki_shampine32<cpp_rational>()}) {
-        expect_declared_order(kepler, stepcert::tableau_method(tab), step_ladder{200, 2.0, 7});
-        expect_declared_order(linear, stepcert::tableau_method(tab), step_ladder{32, 2.0, 7});
+        expect_declared_order(tableau_kepler, stepcert::tableau_method(tab), step_ladder{200, 2.0, 7});
+        expect_declared_order(tableau_linear, stepcert::tableau_method(tab), step_ladder{32, 2.0, 7});
     }
     for (const auto& tab : {tb::classic_rk4<cpp_rational>(), tb::three_eighths_rule<cpp_rational>()}) {
-        expect_declared_order(kepler, stepcert::tableau_method(tab), step_ladder{400, 2.0, 6});
-        expect_declared_order(linear, stepcert::tableau_method(tab), step_ladder{16, 2.0, 7});
+        expect_declared_order(tableau_kepler, stepcert::tableau_method(tab), step_ladder{400, 2.0, 6});
+        expect_declared_order(tableau_linear, stepcert::tableau_method(tab), step_ladder{16, 2.0, 7});
     }
 }
 
@@ -75,8 +75,8 @@ TEST(AcceptanceOrdersTableau, FehlbergFourFive) {
     // round-off (fitted 4.76 over 800..12800 steps, 4.71 over 1600..25600): not a test of the
     // order there, but the error must still fall at least as fast as order 4.
     const auto m = stepcert::tableau_method(tb::fehlberg45<cpp_rational>());
-    expect_declared_order(linear, m, step_ladder{16, 2.0, 7});
-    const auto r = stepcert::order_study(kepler, m, step_ladder{800, 2.0, 6});
+    expect_declared_order(tableau_linear, m, step_ladder{16, 2.0, 7});
+    const auto r = stepcert::order_study(tableau_kepler, m, step_ladder{800, 2.0, 6});
     ASSERT_TRUE(r.fitted()) << stepcert::study_table(r);
     EXPECT_GT(r.fit.lower, 4.0) << stepcert::study_table(r);
 }
@@ -84,8 +84,8 @@ TEST(AcceptanceOrdersTableau, FehlbergFourFive) {
 TEST(AcceptanceOrdersTableau, FifthOrder) {
     // Measured: Cash–Karp 4.949 / 5.020; Dormand–Prince 5.018 / 5.002.
     for (const auto& tab : {tb::cash_karp54<cpp_rational>(), tb::dormand_prince54<cpp_rational>()}) {
-        expect_declared_order(kepler, stepcert::tableau_method(tab), step_ladder{200, 2.0, 6});
-        expect_declared_order(linear, stepcert::tableau_method(tab), step_ladder{16, 2.0, 6});
+        expect_declared_order(tableau_kepler, stepcert::tableau_method(tab), step_ladder{200, 2.0, 6});
+        expect_declared_order(tableau_linear, stepcert::tableau_method(tab), step_ladder{16, 2.0, 6});
     }
 }
 
@@ -107,9 +107,9 @@ TEST(AcceptanceOrdersTableau, AdaptivePairs) {
     for (const auto& tab : {tb::bogacki_shampine32<cpp_rational>(), tb::dormand_prince54<cpp_rational>(),
                             tb::cash_karp54<cpp_rational>()}) {
         const tolerance_ladder ladder{1e-4, 10.0, tab.claimed_order == 3 ? std::size_t{7} : std::size_t{8}};
-        expect_declared_order(kepler, stepcert::adaptive_tableau_method(tab), ladder, opt);
-        expect_declared_order(linear, stepcert::adaptive_tableau_method(tab), ladder, opt);
+        expect_declared_order(tableau_kepler, stepcert::adaptive_tableau_method(tab), ladder, opt);
+        expect_declared_order(tableau_linear, stepcert::adaptive_tableau_method(tab), ladder, opt);
     }
-    expect_declared_order(linear, stepcert::adaptive_tableau_method(tb::fehlberg45<cpp_rational>()), tolerance_ladder{1e-6, 10.0, 6},
+    expect_declared_order(tableau_linear, stepcert::adaptive_tableau_method(tb::fehlberg45<cpp_rational>()), tolerance_ladder{1e-6, 10.0, 6},
                           opt);
 }

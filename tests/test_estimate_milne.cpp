@@ -35,8 +35,8 @@ namespace {
 using boost::multiprecision::cpp_rational;
 namespace odeint = boost::numeric::odeint;
 
-const auto kepler = stepcert::problems::kepler(0.5, 20.0);
-const auto linear = stepcert::problems::linear_system(4.0);
+const auto milne_kepler = stepcert::problems::kepler(0.5, 20.0);
+const auto milne_linear = stepcert::problems::linear_system(4.0);
 
 // ---- The refusal of other methods, at compile time -------------------------------------------
 
@@ -46,9 +46,9 @@ template <class P, class M>
 concept milne_accepts = requires(const P& p, const M& m, std::size_t n) {
     { stepcert::milne_local_error_profile(p, m, n) } -> std::same_as<stepcert::local_error_profile>;
 };
-static_assert(milne_accepts<decltype(kepler), decltype(stepcert::adams_bashforth_moulton<4>)>);
-static_assert(milne_accepts<decltype(kepler), decltype(stepcert::adams_bashforth_moulton<1>)>);
-static_assert(!milne_accepts<decltype(kepler), decltype(stepcert::classic_rk4)>);
+static_assert(milne_accepts<decltype(milne_kepler), decltype(stepcert::adams_bashforth_moulton<4>)>);
+static_assert(milne_accepts<decltype(milne_kepler), decltype(stepcert::adams_bashforth_moulton<1>)>);
+static_assert(!milne_accepts<decltype(milne_kepler), decltype(stepcert::classic_rk4)>);
 static_assert(stepcert::adams_predictor_corrector<decltype(stepcert::adams_bashforth_moulton<8>)>);
 static_assert(!stepcert::adams_predictor_corrector<decltype(stepcert::classic_rk4)>);
 
@@ -128,19 +128,19 @@ void expect_same_run_as_odeint(std::size_t n) {
     // start-up by RK4 (Steps <= 4) or Fehlberg 7(8) (Steps = 5). Measured in double: identical
     // (0 eps) for Steps = 2, 4, 5; the tolerance leaves room for other compilers' contractions.
     const auto m = stepcert::adams_bashforth_moulton<Steps>;
-    const auto run = stepcert::run_uniform(kepler, m, n, 1);
+    const auto run = stepcert::run_uniform(milne_kepler, m, n, 1);
     using S = std::decay_t<decltype(run.states[0])>;
-    S y = stepcert::convert_state<S>(kepler.y0());
-    const double h = (kepler.t1() - kepler.t0()) / static_cast<double>(n);
+    S y = stepcert::convert_state<S>(milne_kepler.y0());
+    const double h = (milne_kepler.t1() - milne_kepler.t0()) / static_cast<double>(n);
     std::size_t evaluations = 0;
-    const auto f = kepler.rhs();
+    const auto f = milne_kepler.rhs();
     auto counted = [&](const S& x, S& d, double t) {
         ++evaluations;
         f(x, d, t);
     };
     std::size_t j = Steps - 1, visits = 0;
     double worst = 0.0;
-    stepcert::detail::adams_pece_run<Steps>(counted, y, kepler.t0(), h, n, [&](double t, const S&, const S& corrected) {
+    stepcert::detail::adams_pece_run<Steps>(counted, y, milne_kepler.t0(), h, n, [&](double t, const S&, const S& corrected) {
         EXPECT_DOUBLE_EQ(t, run.times[j]);
         for (std::size_t i = 0; i < corrected.size(); ++i) worst = std::max(worst, std::abs(corrected[i] - run.states[j + 1][i]));
         ++j;
@@ -169,11 +169,11 @@ void expect_monitor_matches_profile_and_odeint(std::size_t n) {
     const double h = 20.0 / static_cast<double>(n);
     stepcert::local_error_profile log;
     stepcert::adams_milne_monitor<Steps, S> monitor(log);
-    S y = kepler.y0(), plain = y;
-    odeint::integrate_n_steps(monitor, kepler.rhs(), y, 0.0, h, n);
-    odeint::integrate_n_steps(stepcert::odeint_stepper::adams_bashforth_moulton<Steps, S>(), kepler.rhs(), plain, 0.0, h, n);
+    S y = milne_kepler.y0(), plain = y;
+    odeint::integrate_n_steps(monitor, milne_kepler.rhs(), y, 0.0, h, n);
+    odeint::integrate_n_steps(stepcert::odeint_stepper::adams_bashforth_moulton<Steps, S>(), milne_kepler.rhs(), plain, 0.0, h, n);
     EXPECT_EQ(y, plain) << "Steps = " << Steps;
-    const auto profile = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<Steps>, n);
+    const auto profile = stepcert::milne_local_error_profile(milne_kepler, stepcert::adams_bashforth_moulton<Steps>, n);
     ASSERT_EQ(log.steps.size(), profile.steps.size());
     EXPECT_EQ(log.power, profile.power);
     EXPECT_EQ(log.estimator, stepcert::local_error_estimator::milne_device);
@@ -191,9 +191,9 @@ TEST(MilneMonitor, InsideOdeintsIntegrateFunctionsSameStepsAndRecords) {
     using S = std::array<double, 4>;
     stepcert::local_error_profile log;
     stepcert::adams_milne_monitor<4, S> monitor(log);
-    S y = kepler.y0();
-    monitor.do_step(kepler.rhs(), y, 0.0, 0.01);
-    EXPECT_THROW(monitor.do_step(kepler.rhs(), y, 0.01, 0.02), stepcert::invalid_input);
+    S y = milne_kepler.y0();
+    monitor.do_step(milne_kepler.rhs(), y, 0.0, 0.01);
+    EXPECT_THROW(monitor.do_step(milne_kepler.rhs(), y, 0.01, 0.02), stepcert::invalid_input);
     EXPECT_THROW((stepcert::adams_milne_monitor<4, S>(log, stepcert::weighted_norm{0.0, 0.0})), stepcert::invalid_input);
 }
 
@@ -201,11 +201,11 @@ TEST(MilneMonitor, InsideOdeintsIntegrateFunctionsSameStepsAndRecords) {
 
 // One reference per problem, shared by every n dividing its grid and by both scalar types.
 const auto& kepler_reference() {
-    static const auto r = stepcert::reference_solution(kepler, 24, stepcert::uniform_times{2000});
+    static const auto r = stepcert::reference_solution(milne_kepler, 24, stepcert::uniform_times{2000});
     return r;
 }
 const auto& linear_reference() {
-    static const auto r = stepcert::reference_solution(linear, 24, stepcert::uniform_times{800});
+    static const auto r = stepcert::reference_solution(milne_linear, 24, stepcert::uniform_times{800});
     return r;
 }
 
@@ -241,10 +241,10 @@ TYPED_TEST(MilneEffectivity, NearOneInTheAsymptoticRange) {
     // 1.169; linear ABM2 0.902 / 0.995 / 1.082, ABM4 0.894 / 0.980 / 1.158.
     using T = TypeParam;
     const bool quad = !std::is_same_v<T, double>;
-    for (const auto& e : {milne_effectivity<T, 2>(kepler, 2000, kepler_reference(), quad ? "Kepler ABM2 float128" : "Kepler ABM2 double"),
-                          milne_effectivity<T, 4>(kepler, 2000, kepler_reference(), quad ? "Kepler ABM4 float128" : "Kepler ABM4 double"),
-                          milne_effectivity<T, 2>(linear, 400, linear_reference(), quad ? "linear ABM2 float128" : "linear ABM2 double"),
-                          milne_effectivity<T, 4>(linear, 400, linear_reference(), quad ? "linear ABM4 float128" : "linear ABM4 double")}) {
+    for (const auto& e : {milne_effectivity<T, 2>(milne_kepler, 2000, kepler_reference(), quad ? "Kepler ABM2 float128" : "Kepler ABM2 double"),
+                          milne_effectivity<T, 4>(milne_kepler, 2000, kepler_reference(), quad ? "Kepler ABM4 float128" : "Kepler ABM4 double"),
+                          milne_effectivity<T, 2>(milne_linear, 400, linear_reference(), quad ? "linear ABM2 float128" : "linear ABM2 double"),
+                          milne_effectivity<T, 4>(milne_linear, 400, linear_reference(), quad ? "linear ABM4 float128" : "linear ABM4 double")}) {
         EXPECT_TRUE(e.within(0.8, 1.25)) << e.smallest << " .. " << e.largest;
         EXPECT_EQ(e.counted, e.per_step.size());
         EXPECT_NEAR(e.median, 1.0, 0.05);
@@ -255,10 +255,10 @@ TEST(MilneEffectivityRate, DeviationFromOneHalvesWithH) {
     // The O(h) term above (derived): halving h should about halve the largest |effectivity - 1|.
     // Measured on the linear system, n = 400 -> 800: ABM2 0.098 -> 0.052, ABM4 0.158 -> 0.080.
     auto deviation = [](const stepcert::effectivity_summary& e) { return std::max(1.0 - e.smallest, e.largest - 1.0); };
-    const double d2 = deviation(milne_effectivity<double, 2>(linear, 400, linear_reference(), "linear ABM2 double"));
-    const double d2h = deviation(milne_effectivity<double, 2>(linear, 800, linear_reference(), "linear ABM2 double, n = 800"));
-    const double d4 = deviation(milne_effectivity<double, 4>(linear, 400, linear_reference(), "linear ABM4 double"));
-    const double d4h = deviation(milne_effectivity<double, 4>(linear, 800, linear_reference(), "linear ABM4 double, n = 800"));
+    const double d2 = deviation(milne_effectivity<double, 2>(milne_linear, 400, linear_reference(), "linear ABM2 double"));
+    const double d2h = deviation(milne_effectivity<double, 2>(milne_linear, 800, linear_reference(), "linear ABM2 double, n = 800"));
+    const double d4 = deviation(milne_effectivity<double, 4>(milne_linear, 400, linear_reference(), "linear ABM4 double"));
+    const double d4h = deviation(milne_effectivity<double, 4>(milne_linear, 800, linear_reference(), "linear ABM4 double, n = 800"));
     EXPECT_GT(d2h, 0.35 * d2);
     EXPECT_LT(d2h, 0.65 * d2);
     EXPECT_GT(d4h, 0.35 * d4);
@@ -271,11 +271,11 @@ TEST(MilneDevice, SignAgreesWithTheTrueLocalError) {
     stepcert::local_error_options keep;
     keep.keep_vectors = true;
     for (const std::size_t steps : {2u, 4u}) {
-        const auto estimate = steps == 2 ? stepcert::milne_local_error_profile(linear, stepcert::adams_bashforth_moulton<2>, 400, keep)
-                                         : stepcert::milne_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 400, keep);
+        const auto estimate = steps == 2 ? stepcert::milne_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<2>, 400, keep)
+                                         : stepcert::milne_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 400, keep);
         const auto truth = steps == 2
-                               ? stepcert::true_multistep_local_error_profile(linear, stepcert::adams_bashforth_moulton<2>, 400, linear_reference(), keep)
-                               : stepcert::true_multistep_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 400, linear_reference(), keep);
+                               ? stepcert::true_multistep_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<2>, 400, linear_reference(), keep)
+                               : stepcert::true_multistep_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 400, linear_reference(), keep);
         ASSERT_EQ(estimate.vectors.size(), truth.vectors.size());
         ASSERT_EQ(estimate.vectors.size(), 401 - steps);
         std::size_t agreeing = 0;
@@ -292,12 +292,12 @@ TEST(MilneDevice, CostsWhatTheRunCosts) {
     // y_p is a by-product of each PECE step: the profile costs exactly the method's run
     // (odeint's count through run_uniform): (Steps - 1) start-up steps, then 2 per step.
     const std::size_t n = 100;
-    const auto p4 = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<4>, n);
-    EXPECT_EQ(p4.cost.evaluations, stepcert::run_uniform(kepler, stepcert::adams_bashforth_moulton<4>, n).stats.evaluations);
+    const auto p4 = stepcert::milne_local_error_profile(milne_kepler, stepcert::adams_bashforth_moulton<4>, n);
+    EXPECT_EQ(p4.cost.evaluations, stepcert::run_uniform(milne_kepler, stepcert::adams_bashforth_moulton<4>, n).stats.evaluations);
     EXPECT_EQ(p4.cost.evaluations, 3u * 4u + 2u * (n - 3u));
     EXPECT_EQ(p4.cost.steps, n);
-    const auto p6 = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<6>, n);
-    EXPECT_EQ(p6.cost.evaluations, stepcert::run_uniform(kepler, stepcert::adams_bashforth_moulton<6>, n).stats.evaluations);
+    const auto p6 = stepcert::milne_local_error_profile(milne_kepler, stepcert::adams_bashforth_moulton<6>, n);
+    EXPECT_EQ(p6.cost.evaluations, stepcert::run_uniform(milne_kepler, stepcert::adams_bashforth_moulton<6>, n).stats.evaluations);
     EXPECT_EQ(p6.steps.size(), n - 5u);
     // The first record is the first multistep step, from t_(Steps-1).
     EXPECT_DOUBLE_EQ(p4.steps.front().t, 3 * 20.0 / n);
@@ -309,8 +309,8 @@ TEST(MilneDevice, PrincipalErrorFunctionIndependentOfH) {
     // no source), up to the O(h) relative term of the PECE correction (see the effectivity test).
     // ABM4 on Kepler, n = 2000 against 4000, at the coarse grid's times: measured largest relative
     // difference 0.067 (median 0.013); the largest estimate falls by 2^5 = 32 (measured 31.95).
-    const auto coarse = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<4>, 2000);
-    const auto fine = stepcert::milne_local_error_profile(kepler, stepcert::adams_bashforth_moulton<4>, 4000);
+    const auto coarse = stepcert::milne_local_error_profile(milne_kepler, stepcert::adams_bashforth_moulton<4>, 2000);
+    const auto fine = stepcert::milne_local_error_profile(milne_kepler, stepcert::adams_bashforth_moulton<4>, 4000);
     std::vector<double> rel;
     for (std::size_t i = 0; i < coarse.steps.size(); ++i) {
         const std::size_t j = i + 3;        // the coarse record i starts at t_j
@@ -331,21 +331,21 @@ TEST(MilneDevice, PrincipalErrorFunctionIndependentOfH) {
 
 TEST(MilneInput, FewerStepsThanTheMethodNeedsIsInvalid) {
     try {
-        (void)stepcert::milne_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 3);
+        (void)stepcert::milne_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 3);
         FAIL() << "expected invalid_input";
     } catch (const stepcert::invalid_input& e) {
         EXPECT_NE(std::string(e.what()).find("at least 4 steps"), std::string::npos) << e.what();
     }
-    EXPECT_THROW((void)stepcert::milne_local_error_profile(linear, stepcert::adams_bashforth_moulton<1>, 0), stepcert::invalid_input);
+    EXPECT_THROW((void)stepcert::milne_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<1>, 0), stepcert::invalid_input);
 }
 
 TEST(MilneInput, TruthWithFewerStepsThanTheMethodNeedsIsInvalid) {
-    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 2, 20),
+    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 2, 20),
                  stepcert::invalid_input);
 }
 
 TEST(MilneInput, TruthOnAReferenceOfAnotherGridIsInvalid) {
-    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(linear, stepcert::adams_bashforth_moulton<2>, 300, linear_reference()),
+    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<2>, 300, linear_reference()),
                  stepcert::invalid_input);
 }
 
@@ -375,9 +375,9 @@ TEST(MilneInput, NonFiniteRightHandSideInTheStartUpIsRefused) {
 TEST(MilneInput, EvaluationBudgetBoundsTheRun) {
     stepcert::local_error_options small_budget;
     small_budget.max_evaluations = 100;
-    EXPECT_THROW((void)stepcert::milne_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 100, small_budget),
+    EXPECT_THROW((void)stepcert::milne_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 100, small_budget),
                  stepcert::budget_exhausted);
-    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(linear, stepcert::adams_bashforth_moulton<4>, 400, linear_reference(),
+    EXPECT_THROW((void)stepcert::true_multistep_local_error_profile(milne_linear, stepcert::adams_bashforth_moulton<4>, 400, linear_reference(),
                                                                     small_budget),
                  stepcert::budget_exhausted);
 }

@@ -16,7 +16,7 @@
 namespace {
 
 using study_test::kepler_exact_double;
-auto kepler_half() { return study_test::kepler_with_double_exact(); }
+auto kepler_half_double_exact() { return study_test::kepler_with_double_exact(); }
 
 stepcert::study_options differences() {
     stepcert::study_options o;
@@ -38,7 +38,7 @@ const auto midpoint_typo = stepcert::one_step_method("midpoint (c2 typo)", 2, []
 } // namespace
 
 TEST(RichardsonBasis, ClassicRK4OrderWithoutReference) {
-    const auto r = stepcert::order_study(kepler_half(), stepcert::classic_rk4, stepcert::step_ladder{50, 2.0, 15}, differences());
+    const auto r = stepcert::order_study(kepler_half_double_exact(), stepcert::classic_rk4, stepcert::step_ladder{50, 2.0, 15}, differences());
     ASSERT_TRUE(r.fitted()) << r.verdict_text;
     EXPECT_EQ(r.basis, stepcert::error_basis::successive_differences);
     EXPECT_NE(r.basis_detail.find("Richardson"), std::string::npos) << r.basis_detail;
@@ -50,7 +50,7 @@ TEST(RichardsonBasis, ClassicRK4OrderWithoutReference) {
 }
 
 TEST(RichardsonBasis, ErrorColumnsHoldDifferencesOfSuccessiveLevels) {
-    const auto p = kepler_half();
+    const auto p = kepler_half_double_exact();
     const auto r = stepcert::order_study(p, stepcert::classic_rk4, stepcert::step_ladder{50, 2.0, 4}, differences());
     const auto coarse = stepcert::run_uniform(p, stepcert::classic_rk4, 100);
     const auto fine = stepcert::run_uniform(p, stepcert::classic_rk4, 200);
@@ -62,8 +62,8 @@ TEST(RichardsonBasis, ErrorColumnsHoldDifferencesOfSuccessiveLevels) {
 TEST(RichardsonBasis, AgreesWithTheExactSolutionBasis) {
     // Explicit midpoint, second order (common practice, no source), fitted both ways on the same runs.
     const stepcert::step_ladder ladder{50, 2.0, 12};
-    const auto by_difference = stepcert::order_study(kepler_half(), stepcert::explicit_midpoint, ladder, differences());
-    const auto by_exact = stepcert::order_study(kepler_half(), stepcert::explicit_midpoint, ladder);
+    const auto by_difference = stepcert::order_study(kepler_half_double_exact(), stepcert::explicit_midpoint, ladder, differences());
+    const auto by_exact = stepcert::order_study(kepler_half_double_exact(), stepcert::explicit_midpoint, ladder);
     ASSERT_TRUE(by_difference.fitted()) << by_difference.verdict_text;
     ASSERT_TRUE(by_exact.fitted()) << by_exact.verdict_text;
     EXPECT_EQ(by_exact.basis, stepcert::error_basis::exact_solution);
@@ -78,18 +78,18 @@ TEST(RichardsonBasis, AgreesWithTheExactSolutionBasis) {
 TEST(RichardsonBasis, WrongMethodIsReportedAtItsTrueOrder) {
     // On [0, 20] a first-order method keeps no correct digit down to h = 5e-5 (the study says
     // "no asymptotic range found" there); over the first third of an orbit it converges.
-    const auto r = stepcert::order_study(kepler_half().on_interval(0.0, 2.0), midpoint_typo, stepcert::step_ladder{20, 2.0, 12},
+    const auto r = stepcert::order_study(kepler_half_double_exact().on_interval(0.0, 2.0), midpoint_typo, stepcert::step_ladder{20, 2.0, 12},
                                          differences());
     ASSERT_TRUE(r.fitted()) << r.verdict_text;
     EXPECT_EQ(r.declared_order, 2);
     EXPECT_NEAR(r.fit.order, 1.0, 0.2);
-    const auto whole_orbit = stepcert::order_study(kepler_half(), midpoint_typo, stepcert::step_ladder{50, 2.0, 12}, differences());
+    const auto whole_orbit = stepcert::order_study(kepler_half_double_exact(), midpoint_typo, stepcert::step_ladder{50, 2.0, 12}, differences());
     EXPECT_FALSE(whole_orbit.fitted());
     EXPECT_NE(whole_orbit.verdict_text.find("no asymptotic range found"), std::string::npos) << whole_orbit.verdict_text;
 }
 
 TEST(RichardsonBasis, ThreeLevelsGiveAnObservedOrderButNoRange) {
-    const auto r = stepcert::order_study(kepler_half(), stepcert::classic_rk4, stepcert::step_ladder{800, 2.0, 3}, differences());
+    const auto r = stepcert::order_study(kepler_half_double_exact(), stepcert::classic_rk4, stepcert::step_ladder{800, 2.0, 3}, differences());
     EXPECT_FALSE(r.fitted());
     EXPECT_TRUE(std::isnan(r.order()));
     ASSERT_TRUE(std::isfinite(r.levels[2].local_order));

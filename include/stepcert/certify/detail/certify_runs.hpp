@@ -1,0 +1,97 @@
+#pragma once
+// The runs a fixed-step certification makes, kept by step count, with the budget and the
+// measures it needs: the error of one run against another or against the truth, in tolerance
+// units, over the output grid or at t1 only.
+#include <algorithm>
+#include <cmath>
+#include <cstddef>
+#include <limits>
+#include <map>
+#include <string>
+#include <vector>
+
+#include "stepcert/certify/certify_options.hpp"
+#include "stepcert/core/error.hpp"
+#include "stepcert/core/norm.hpp"
+#include "stepcert/core/round_off.hpp"
+#include "stepcert/run/run.hpp"
+
+namespace stepcert::detail {
+
+template <class P, class M>
+class certify_runs {
+public:
+    using state = rebind_state<typename P::state_type, double>;
+    using run_type = trajectory<state>;
+
+    certify_runs(const P& p, const M& m, const weighted_norm& tol, const certify_options& opt)
+        : p_(p), m_(m), tol_(tol), opt_(opt) {}
+
+    /// The run with n steps (n a multiple of the grid), made once. Throws what run_uniform
+    /// throws: budget_exhausted, non_finite_value.
+    const run_type& at(std::size_t n) {
+        auto it = runs_.find(n);
+        if (it != runs_.end()) return it->second;
+        run_options ro;
+        ro.max_evaluations = opt_.max_evaluations - std::min(opt_.max_evaluations, evaluations_);
+        if (ro.max_evaluations == 0)
+            throw budget_exhausted("stepcert::certify: the evaluation budget is spent before the run with " +
+                                   std::to_string(n) + " steps; raise max_evaluations.");
+        auto run = run_uniform<double>(p_, m_, n, n / opt_.output_times, ro);
+        evaluations_ += run.stats.evaluations;
+        return runs_.emplace(n, std::move(run)).first->second;
+    }
+
+    /// Largest (or final) weighted difference between two runs' states on the grid.
+    double difference(std::size_t a, std::size_t b) {
+        const auto& ra = at(a);
+        const auto& rb = at(b);
+        return measure([&](std::size_t j) { return tol_(ra.states[j], rb.states[j]); }, ra.states.size());
+    }
+
+    /// Largest (or final) weighted error of the run with n steps against truth[j - 1] at grid point j.
+    template <class Truth>
+    double error_against(std::size_t n, const Truth& truth) {
+        const auto& r = at(n);
+        return measure([&](std::size_t j) { return tol_(r.states[j], truth[j - 1]); }, r.states.size());
+    }
+
+    /// The round-off level of a run with n steps, in tolerance units: factor sqrt(n) eps |y| at
+    /// the run's largest state (rounding of early large values stays in the result).
+    double round_off_floor_units(std::size_t n) {
+        const auto& r = at(n);
+        double units = 0.0;
+        for (const auto& y : r.states) {
+            state e = y;
+            for (std::size_t i = 0; i < state_size(e); ++i)
+                e[i] = round_off_floor(opt_.round_off_factor, n, std::numeric_limits<double>::epsilon(), std::abs(y[i]));
+            units = std::max(units, tol_.of_difference(e, y));
+        }
+        return units;
+    }
+
+    std::size_t evaluations() const { return evaluations_; }
+
+private:
+    template <class F>
+    double measure(F&& at_point, std::size_t points) const {
+        // Grid point 0 is t0, where every run starts from y0: it carries no error.
+        if (opt_.measured_at == error_measured_at::final_time) return at_point(points - 1);
+        double worst = 0.0;
+        for (std::size_t j = 1; j < points; ++j) {
+            const double e = at_point(j);
+            if (!(e <= worst)) worst = e;  // NaN and inf win: never a small error
+            if (std::isnan(worst)) return std::numeric_limits<double>::infinity();
+        }
+        return worst;
+    }
+
+    const P& p_;
+    const M& m_;
+    weighted_norm tol_;
+    certify_options opt_;
+    std::map<std::size_t, run_type> runs_;
+    std::size_t evaluations_ = 0;
+};
+
+} // namespace stepcert::detail
