@@ -2,6 +2,7 @@
 // certify_step_count (a given step), check_certificate (a stored certificate after a change).
 // Ground truth: exact solutions and stepcert's multiprecision reference; the stability limits
 // are published values (../shared/reference-values.md).
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -275,4 +276,27 @@ TEST(CheckCertificate, HoldsForTheSameModelAndFailsAfterAChange) {
     const auto other = stepcert::check_certificate(stored, rig, stepcert::explicit_midpoint, opt);
     EXPECT_FALSE(other.holds);
     EXPECT_NE(other.why.find("method"), std::string::npos);
+}
+
+// A right-hand side written for double only cannot run in multiprecision: no reference can vouch
+// for the digits the tolerance needs. The certificate then stays estimated and says why, or, when
+// the reference-verified level is required, is refused with that reason.
+TEST(CertifyRefusal, ReferenceUnavailableForADoubleOnlyRightHandSide) {
+    const auto damped = stepcert::make_problem(
+        "damped spring, double only",
+        [](const std::array<double, 2>& y, std::array<double, 2>& dydt, double) {
+            dydt[0] = y[1];
+            dydt[1] = -4.0 * y[0] - 0.4 * y[1];
+        },
+        std::array<double, 2>{1.0, 0.0}, 0.0, 5.0);
+    const auto tol = absolute(1e-9);
+    const auto estimated = stepcert::certify(damped, stepcert::classic_rk4, tol);
+    ASSERT_TRUE(estimated.issued()) << estimated.reason_detail;
+    EXPECT_EQ(estimated.level, evidence_level::estimated);
+    EXPECT_NE(estimated.basis.find("no reference check"), std::string::npos);
+    stepcert::certify_options strict;
+    strict.require_reference = true;
+    const auto refused = stepcert::certify(damped, stepcert::classic_rk4, tol, strict);
+    EXPECT_FALSE(refused.issued());
+    EXPECT_EQ(refused.reason, refusal::reference_unavailable) << refused.reason_detail;
 }

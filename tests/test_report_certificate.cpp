@@ -107,6 +107,8 @@ void expect_same(const step_certificate& a, const step_certificate& b) {
     EXPECT_EQ(a.reason_detail, b.reason_detail);
     EXPECT_EQ(a.steps, b.steps);
     EXPECT_EQ(bits(a.step), bits(b.step));
+    EXPECT_EQ(bits(a.controller_atol), bits(b.controller_atol));
+    EXPECT_EQ(bits(a.controller_rtol), bits(b.controller_rtol));
     EXPECT_EQ(bits(a.estimated_error), bits(b.estimated_error));
     EXPECT_EQ(bits(a.safety_factor), bits(b.safety_factor));
     EXPECT_EQ(bits(a.error_band), bits(b.error_band));
@@ -175,6 +177,7 @@ TEST(ReportCertificateJson, DocumentLayout) {
     EXPECT_EQ(keys_of(j), (std::set<std::string>{"format", "format_version", "caution", "problem", "dimension", "method",
                                                  "declared_order", "observed_order", "t0", "t1", "tolerance", "measured_at",
                                                  "output_times", "level", "reason", "reason_detail", "steps", "step",
+                                                 "controller_atol", "controller_rtol",
                                                  "estimated_error", "safety_factor", "error_band", "basis", "bound",
                                                  "reference_error", "reference_digits", "stability", "evaluations",
                                                  "reference_evaluations", "library"}));

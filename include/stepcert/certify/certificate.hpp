@@ -90,8 +90,11 @@ struct step_certificate {
     evidence_level level = evidence_level::not_certified;
     refusal reason = refusal::none;
     std::string reason_detail;  ///< what was seen, and what to do
-    std::size_t steps = 0;      ///< N; h = (t1 - t0) / N (0 when not certified)
-    double step = std::numeric_limits<double>::quiet_NaN();
+    std::size_t steps = 0;      ///< N; h = (t1 - t0) / N (adaptive: the certified run's accepted steps; 0 when not certified)
+    double step = std::numeric_limits<double>::quiet_NaN();  ///< h (NaN for adaptive methods)
+    /// Adaptive methods: the certified controller tolerances (NaN for fixed-step methods).
+    double controller_atol = std::numeric_limits<double>::quiet_NaN();
+    double controller_rtol = std::numeric_limits<double>::quiet_NaN();
 
     // The evidence, in tolerance units (<= 1: met).
     double estimated_error = std::numeric_limits<double>::quiet_NaN();  ///< Richardson estimate at N

@@ -28,6 +28,7 @@
 #include "stepcert/certify/certify_options.hpp"
 #include "stepcert/certify/detail/certify_runs.hpp"
 #include "stepcert/certify/detail/grid_truth.hpp"
+#include "stepcert/certify/grid_convergence_index.hpp"
 #include "stepcert/certify/stability_check.hpp"
 #include "stepcert/core/concepts.hpp"
 #include "stepcert/core/error.hpp"
@@ -85,6 +86,7 @@ inline step_certificate refuse(step_certificate c, refusal why, std::string deta
     c.reason_detail = std::move(detail);
     c.steps = 0;
     c.step = std::numeric_limits<double>::quiet_NaN();
+    c.controller_atol = c.controller_rtol = std::numeric_limits<double>::quiet_NaN();
     return c;
 }
 
@@ -130,11 +132,11 @@ stability_record stability_of_run(const P& p, const M& m, certify_runs<P, M>& ru
 }
 
 /// The Richardson error band, in tolerance units, of the run with n steps from the run with
-/// partner steps: safety * |y_n - y_partner| / (r^p - 1) (times r^p when n is the coarser run).
+/// partner steps (grid_convergence_index.hpp: the fine or the coarse solution's band).
 inline double richardson_band(double difference, std::size_t n, std::size_t partner, double order, double safety) {
     const double r = static_cast<double>(std::max(n, partner)) / static_cast<double>(std::min(n, partner));
-    const double rp = std::pow(r, order);
-    return safety * difference * (n < partner ? rp : 1.0) / (rp - 1.0);
+    return n > partner ? fine_solution_error_band(difference, r, order, safety)
+                       : coarse_solution_error_band(difference, r, order, safety);
 }
 
 /// The ladder run to compare N with: ratio nearest 2, at least 1.3 (a smaller ratio divides a
@@ -394,6 +396,10 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                     c.level = evidence_level::reference_verified;
                     if (opt.coarsen_with_reference)
                         detail::coarsen_against_truth(p, m, runs, truth->states, c, opt, stability_evaluations);
+                } else if (opt.require_reference) {
+                    return finish(detail::refuse(c, refusal::reference_unavailable,
+                                                 "the reference-verified level was required, but no reference could be had: " +
+                                                     truth_why));
                 } else {
                     c.basis += "; no reference check: " + truth_why;
                 }

@@ -19,6 +19,10 @@ struct certify_options {
     /// With the reference verified, look for a coarser step that meets the tolerance against it
     /// directly (useful before the asymptotic range, where Richardson cannot be trusted).
     bool coarsen_with_reference = true;
+    /// Refuse (refusal::reference_unavailable) instead of settling for the estimated level when no
+    /// reference can be had (a right-hand side that runs in double only, a reference that cannot
+    /// vouch for the digits the tolerance needs).
+    bool require_reference = false;
     /// Grid Convergence Index safety factor on the Richardson estimate (Roache; Celik et al. 2008
     /// use 1.25 with three levels and an observed order).
     double safety_factor = 1.25;

@@ -1,10 +1,10 @@
 #pragma once
 // Certification of a step the user already runs with: N uniform steps of a fixed-step method.
-// The runs with N, 2N and 4N steps give the observed order (it must agree with the declared one)
-// and the Richardson band of the run with N steps, safety * |y_N - y_2N| 2^p / (2^p - 1); the
-// step must be stable, and, when asked and possible, its error against the exact solution or a
-// multiprecision reference must meet the tolerance. check_certificate uses it to re-judge a
-// stored certificate.
+// The step must be stable. With the exact solution or a multiprecision reference (asked for and
+// available) its error against that truth decides: reference-verified. Otherwise the runs with N,
+// 2N and 4N steps give the observed order (it must agree with the declared one) and the
+// Richardson band of the run with N steps, safety * |y_N - y_2N| 2^p / (2^p - 1), which must
+// meet the tolerance: estimated. check_certificate uses it to re-judge a stored certificate.
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -14,6 +14,51 @@
 #include "stepcert/certify/certify_fixed_step.hpp"
 
 namespace stepcert {
+
+namespace detail {
+
+/// Richardson's evidence for the run with n steps from the runs with 2n and 4n: fills the
+/// certificate's observed order, estimate, band and basis and returns "" when it holds; else
+/// sets c.reason and returns why it does not (non-finite runs, round-off, outside the range).
+template <class P, class M>
+std::string judge_by_richardson(certify_runs<P, M>& runs, std::size_t n, int p_declared, const certify_options& opt,
+                                step_certificate& c) {
+    double d1 = 0.0, d2 = 0.0;
+    try {
+        d1 = runs.difference(n, 2 * n);
+        d2 = runs.difference(2 * n, 4 * n);
+    } catch (const non_finite_value& e) {
+        c.reason = refusal::non_finite;
+        return e.what();
+    }
+    if (!std::isfinite(d1) || !std::isfinite(d2)) {
+        c.reason = refusal::non_finite;
+        return "the runs with N, 2N or 4N steps are not finite.";
+    }
+    if (d2 <= runs.round_off_floor_units(4 * n) || d1 <= runs.round_off_floor_units(2 * n)) {
+        c.reason = refusal::below_round_off_floor;
+        return "the runs with N, 2N and 4N steps differ by no more than their rounding: the error is not measurable in "
+               "double at this tolerance; loosen it, or run a multiprecision state.";
+    }
+    const double observed = std::log2(d1 / d2);
+    c.observed_order = observed;
+    if (!(std::abs(observed - p_declared) <= opt.order_tolerance)) {
+        c.reason = refusal::outside_asymptotic_range;
+        return "the order observed on N, 2N, 4N steps is " + certificate_number(observed) + ", not within " +
+               certificate_number(opt.order_tolerance) + " of the declared " + std::to_string(p_declared) +
+               ": the step is outside the asymptotic range, so Richardson's estimate does not hold; take more steps.";
+    }
+    const double p_used = std::min(observed, static_cast<double>(p_declared));
+    c.error_band = richardson_band(d1, n, 2 * n, p_used, opt.safety_factor);
+    c.estimated_error = c.error_band / opt.safety_factor;
+    c.safety_factor = opt.safety_factor;
+    c.basis = "Richardson: runs with " + std::to_string(n) + ", " + std::to_string(2 * n) + " and " + std::to_string(4 * n) +
+              " steps, order " + certificate_number(p_used) + " (observed " + certificate_number(observed) +
+              "), safety factor " + certificate_number(opt.safety_factor);
+    return "";
+}
+
+} // namespace detail
 
 template <problem_like P, fixed_step_method M>
 step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const weighted_norm& tol,
@@ -37,72 +82,59 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         out.evaluations = runs.evaluations() + stability_evaluations;
         return out;
     };
-    double d1 = 0.0, d2 = 0.0;
     try {
         try {
-            // Stability first: an unstable step's differences are no evidence of anything.
+            // Stability first: an unstable step's errors are no evidence of anything.
             runs.at(n);
-            c.stability = detail::stability_of_run(p, m, runs, n, opt, stability_evaluations);
-            if (c.stability.checked && !c.stability.stable)
-                return finish(detail::refuse(c, refusal::unstable,
-                                             "h = " + detail::certificate_number(length / static_cast<double>(n)) +
-                                                 " puts h lambda outside the method's stability region (" + c.stability.worst_mode +
-                                                 "); the largest stable step found is " + detail::certificate_number(c.stability.step_limit) +
-                                                 ": take at least " +
-                                                 std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) +
-                                                 " steps."));
-            d1 = runs.difference(n, 2 * n);
-            d2 = runs.difference(2 * n, 4 * n);
         } catch (const non_finite_value& e) {
             return finish(detail::refuse(c, refusal::non_finite, e.what()));
         }
-        if (!std::isfinite(d1) || !std::isfinite(d2))
-            return finish(detail::refuse(c, refusal::non_finite, "the runs with N, 2N or 4N steps are not finite."));
-        if (d2 <= runs.round_off_floor_units(4 * n) || d1 <= runs.round_off_floor_units(2 * n))
-            return finish(detail::refuse(c, refusal::below_round_off_floor,
-                                         "the runs with N, 2N and 4N steps differ by no more than their rounding: the "
-                                         "error is not measurable in double at this tolerance; loosen it, or run a "
-                                         "multiprecision state."));
-        const double observed = std::log2(d1 / d2);
-        c.observed_order = observed;
-        if (!(std::abs(observed - p_declared) <= opt.order_tolerance))
-            return finish(detail::refuse(c, refusal::outside_asymptotic_range,
-                                         "the order observed on N, 2N, 4N steps is " + detail::certificate_number(observed) +
-                                             ", not within " + detail::certificate_number(opt.order_tolerance) + " of the declared " +
-                                             std::to_string(p_declared) + ": the step is outside the asymptotic range, so "
-                                             "Richardson's estimate does not hold; take more steps."));
-        const double p_used = std::min(observed, static_cast<double>(p_declared));
-        const double band = detail::richardson_band(d1, n, 2 * n, p_used, opt.safety_factor);
-        c.estimated_error = band / opt.safety_factor;
-        c.safety_factor = opt.safety_factor;
-        c.error_band = band;
-        c.basis = "Richardson: runs with " + std::to_string(n) + ", " + std::to_string(2 * n) + " and " +
-                  std::to_string(4 * n) + " steps, order " + detail::certificate_number(p_used) + " (observed " +
-                  detail::certificate_number(observed) + "), safety factor " + detail::certificate_number(opt.safety_factor);
-        if (!(band <= 1.0))
-            return finish(detail::refuse(c, refusal::tolerance_not_met,
-                                         "the estimated error band " + detail::certificate_number(band) +
-                                             " exceeds the tolerance: this step does not meet it; take more steps."));
-        c.steps = n;
-        c.step = length / static_cast<double>(n);
-        c.level = evidence_level::estimated;
+        c.stability = detail::stability_of_run(p, m, runs, n, opt, stability_evaluations);
+        if (c.stability.checked && !c.stability.stable)
+            return finish(detail::refuse(
+                c, refusal::unstable,
+                "h = " + detail::certificate_number(length / static_cast<double>(n)) +
+                    " puts h lambda outside the method's stability region (" + c.stability.worst_mode +
+                    "); the largest stable step found is " + detail::certificate_number(c.stability.step_limit) + ": take at least " +
+                    std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) + " steps."));
+        // With the truth at hand it decides; Richardson is then only reported (when it holds).
+        std::optional<detail::grid_truth<typename detail::certify_runs<P, M>::state>> truth;
+        std::string truth_why;
         if (opt.verify_with_reference) {
-            std::string why;
-            const auto truth = detail::truth_on_grid(p, G, tol, why);
+            truth = detail::truth_on_grid(p, G, tol, truth_why);
             if (truth) {
                 c.reference_digits = truth->digits;
                 c.reference_evaluations = truth->evaluations;
                 c.reference_error = runs.error_against(n, truth->states);
                 if (!(c.reference_error <= 1.0))
                     return finish(detail::refuse(c, refusal::tolerance_not_met,
-                                                 "the run's error against the reference is " + detail::certificate_number(c.reference_error) +
-                                                     " times the tolerance although the estimate said " +
-                                                     detail::certificate_number(band) + ": this step does not meet it."));
-                c.level = evidence_level::reference_verified;
-            } else {
-                c.basis += "; no reference check: " + why;
+                                                 "the run's error against the reference is " +
+                                                     detail::certificate_number(c.reference_error) +
+                                                     " times the tolerance: this step does not meet it; take more steps."));
             }
         }
+        const std::string richardson_problem = detail::judge_by_richardson(runs, n, p_declared, opt, c);
+        if (truth) {
+            c.reason = refusal::none;
+            c.steps = n;
+            c.step = length / static_cast<double>(n);
+            c.level = evidence_level::reference_verified;
+            c.basis = "measured against the reference at " + std::to_string(n) + " steps" +
+                      (richardson_problem.empty() ? "; " + c.basis : "; Richardson not applicable: " + richardson_problem);
+            return finish(c);
+        }
+        if (opt.verify_with_reference && opt.require_reference)
+            return finish(detail::refuse(c, refusal::reference_unavailable,
+                                         "the reference-verified level was required, but no reference could be had: " + truth_why));
+        if (!richardson_problem.empty()) return finish(detail::refuse(c, c.reason, richardson_problem));
+        if (!(c.error_band <= 1.0))
+            return finish(detail::refuse(c, refusal::tolerance_not_met,
+                                         "the estimated error band " + detail::certificate_number(c.error_band) +
+                                             " exceeds the tolerance: this step does not meet it; take more steps."));
+        c.steps = n;
+        c.step = length / static_cast<double>(n);
+        c.level = evidence_level::estimated;
+        if (opt.verify_with_reference) c.basis += "; no reference check: " + truth_why;
         return finish(c);
     } catch (const budget_exhausted& e) {
         return finish(detail::refuse(c, refusal::budget_exhausted, e.what()));

@@ -53,8 +53,10 @@ certificate_check check_certificate(const step_certificate& stored, const P& p, 
     else if (!as_strong)
         out.why = "the step meets the tolerance only by estimate now; it was reference-verified (" + out.current.basis + ")";
     else
-        out.why = "holds: " + std::string(to_string(out.current.level)) + ", error band " +
-                  detail::certificate_number(out.current.error_band) + " of the tolerance";
+        out.why = out.current.level == evidence_level::reference_verified
+                      ? "holds: reference-verified, error " + detail::certificate_number(out.current.reference_error) +
+                            " of the tolerance against the reference"
+                      : "holds: estimated, error band " + detail::certificate_number(out.current.error_band) + " of the tolerance";
     return out;
 }
 

@@ -145,6 +145,8 @@ inline nlohmann::json to_json(const step_certificate& c) {
     j["reason_detail"] = c.reason_detail;
     j["steps"] = c.steps;
     j["step"] = json_number(c.step);
+    j["controller_atol"] = json_number(c.controller_atol);
+    j["controller_rtol"] = json_number(c.controller_rtol);
     j["estimated_error"] = json_number(c.estimated_error);
     j["safety_factor"] = json_number(c.safety_factor);
     j["error_band"] = json_number(c.error_band);
@@ -183,6 +185,8 @@ inline step_certificate step_certificate_from_json(const nlohmann::json& j) {
         c.reason_detail = string_from_json(j, "reason_detail");
         c.steps = count_from_json(j, "steps");
         c.step = number_from_json(j, "step");
+        c.controller_atol = number_from_json(j, "controller_atol");
+        c.controller_rtol = number_from_json(j, "controller_rtol");
         c.estimated_error = number_from_json(j, "estimated_error");
         c.safety_factor = number_from_json(j, "safety_factor");
         c.error_band = number_from_json(j, "error_band");

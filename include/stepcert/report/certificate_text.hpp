@@ -88,7 +88,16 @@ inline std::vector<std::pair<std::string, std::string>> certificate_rows(const s
     evidence += evidence_in_words(c.level);
     rows.emplace_back("evidence", evidence);
 
-    if (c.issued()) {
+    if (c.issued() && std::isfinite(c.controller_atol)) {
+        S step = "controller atol ";
+        step += certificate_number(c.controller_atol, "%.3e");
+        step += ", rtol ";
+        step += certificate_number(c.controller_rtol, "%.3e");
+        step += " (";
+        step += std::to_string(c.steps);
+        step += " accepted steps)";
+        rows.emplace_back("certified tolerance", step);
+    } else if (c.issued()) {
         S step = "h = ";
         step += certificate_number(c.step, "%.3e");
         step += " (";
