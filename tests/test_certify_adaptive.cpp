@@ -1,6 +1,7 @@
 // Certification of adaptive methods: the loosest controller tolerance whose run meets the target,
 // with tolerance proportionality observed by runs. Ground truth: exact solutions (Kepler's
 // equation; the linear system by its eigen-decomposition).
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <cstdio>
@@ -9,6 +10,7 @@
 #include <gtest/gtest.h>
 
 #include "stepcert/certify/certify_adaptive.hpp"
+#include "stepcert/certify/check_certificate.hpp"
 #include "stepcert/methods/cash_karp54.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
 #include "stepcert/problems/kepler.hpp"
@@ -81,4 +83,26 @@ TEST(CertifyAdaptive, RefusalsAndBadInput) {
     const auto d = stepcert::certify(kepler, stepcert::dormand_prince54_adaptive, stepcert::weighted_norm{1e-8, 0.0}, tight);
     EXPECT_FALSE(d.issued());
     EXPECT_EQ(d.reason, stepcert::refusal::budget_exhausted);
+}
+
+// The CI use for an adaptive method: the stored controller tolerance is judged again. On the same
+// model it holds; on an orbit of eccentricity 0.9 under the same name (our own invented change)
+// the global error grows beyond what the stored controller tolerance keeps within the target.
+TEST(CertifyAdaptive, StoredControllerToleranceIsCheckedAgain) {
+    const auto kepler = stepcert::problems::kepler(0.5, 20.0);
+    const stepcert::weighted_norm tol{1e-7, 0.0, stepcert::norm_kind::max};
+    const auto stored = stepcert::certify(kepler, stepcert::dormand_prince54_adaptive, tol);
+    ASSERT_TRUE(stored.issued()) << stored.reason_detail;
+    const auto same = stepcert::check_certificate(stored, kepler, stepcert::dormand_prince54_adaptive);
+    EXPECT_TRUE(same.holds) << same.why;
+    // The same orbit size (a = 1) with eccentricity 0.9: perihelion at 0.1, speed sqrt(1.9 / 0.1).
+    const std::array<double, 4> y0{0.1, 0.0, 0.0, std::sqrt(19.0)};
+    const auto eccentric = stepcert::make_problem(kepler.name(), kepler.rhs(), y0, kepler.t0(), kepler.t1());
+    const auto after = stepcert::check_certificate(stored, eccentric, stepcert::dormand_prince54_adaptive);
+    std::printf("same model: %s\nchanged orbit: %s\n", same.why.c_str(), after.why.c_str());
+    EXPECT_FALSE(after.holds);
+    // A given controller tolerance far too loose is refused.
+    const auto loose = stepcert::certify_controller_tolerance(kepler, stepcert::dormand_prince54_adaptive, {1e-3, 1e-3}, tol);
+    EXPECT_FALSE(loose.issued());
+    EXPECT_EQ(loose.reason, stepcert::refusal::tolerance_not_met);
 }

@@ -36,8 +36,10 @@ class adaptive_certify_runs {
 public:
     using state = rebind_state<typename P::state_type, double>;
 
-    adaptive_certify_runs(const P& p, const M& m, const weighted_norm& tol, const certify_options& opt)
-        : p_(p), m_(m), tol_(tol), opt_(opt),
+    /// Runs at s * base; base defaults to the target's own atol and rtol.
+    adaptive_certify_runs(const P& p, const M& m, const weighted_norm& tol, const certify_options& opt,
+                          std::optional<controller_tolerance> base = std::nullopt)
+        : p_(p), m_(m), tol_(tol), opt_(opt), base_(base ? *base : controller_tolerance{tol.atol, tol.rtol}),
           times_(uniform_times{opt.output_times}.in<double>(static_cast<double>(p.t0()), static_cast<double>(p.t1()))) {}
 
     const trajectory<state>& at(double s) {
@@ -52,7 +54,7 @@ public:
         return runs_.emplace(s, std::move(run)).first->second;
     }
 
-    controller_tolerance controller_of(double s) const { return {s * tol_.atol, s * tol_.rtol}; }
+    controller_tolerance controller_of(double s) const { return {s * base_.atol, s * base_.rtol}; }
 
     double difference(double a, double b) { return measure(at(a), [&](std::size_t j) { return at(b).states[j]; }); }
 
@@ -81,6 +83,7 @@ private:
     const M& m_;
     weighted_norm tol_;
     certify_options opt_;
+    controller_tolerance base_;
     std::vector<double> times_;
     std::map<double, trajectory<state>> runs_;
     std::size_t evaluations_ = 0;
@@ -223,6 +226,93 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
     return finish(detail::refuse(c, refusal::budget_exhausted,
                                  "no controller tolerance passed the confirmation in 12 attempts; the runs do not follow "
                                  "tolerance proportionality closely enough to be certified."));
+}
+
+/// Judges a controller tolerance the user already runs with. The truth (exact solution or
+/// reference, asked for and available) decides when at hand: reference-verified. Otherwise the
+/// runs at ct, ct/10 and ct/100 give the proportionality exponent q (> 0.3 required) and the
+/// Richardson band of the run at ct, safety * d * 10^q / (10^q - 1), which must meet tol: estimated.
+template <problem_like P, adaptive_method M>
+step_certificate certify_controller_tolerance(const P& p, const M& m, controller_tolerance ct, const weighted_norm& tol,
+                                              const certify_options& opt = {}) {
+    const std::string who = "stepcert::certify_controller_tolerance: ";
+    detail::check_tolerance(tol, who);
+    opt.validate(who);
+    if (!std::isfinite(ct.atol) || !std::isfinite(ct.rtol) || ct.atol < 0.0 || ct.rtol < 0.0 || (ct.atol == 0.0 && ct.rtol == 0.0))
+        throw invalid_input(who + "the controller tolerances must be finite, >= 0 and not both zero.");
+    step_certificate c = detail::blank_certificate(p, m.name(), m.order(), tol, opt);
+    c.stability.worst_mode = "not checked: the error controller chooses the steps";
+    if (detail::round_off_units_at_start(p, tol, opt.round_off_factor) >= opt.target)
+        return detail::refuse(c, refusal::below_round_off_floor,
+                              "the tolerance is below the rounding of the initial state in double; loosen it, or run a "
+                              "multiprecision state.");
+    detail::adaptive_certify_runs<P, M> runs(p, m, tol, opt, ct);
+    auto finish = [&](step_certificate out) {
+        out.evaluations = runs.evaluations();
+        return out;
+    };
+    auto certified = [&](evidence_level level) {
+        c.level = level;
+        c.reason = refusal::none;
+        c.controller_atol = ct.atol;
+        c.controller_rtol = ct.rtol;
+        c.steps = runs.at(1.0).stats.steps;
+        return finish(c);
+    };
+    try {
+        try {
+            runs.at(1.0);
+        } catch (const non_finite_value& e) {
+            return finish(detail::refuse(c, refusal::non_finite, e.what()));
+        }
+        std::string truth_why;
+        if (opt.verify_with_reference) {
+            const auto truth = detail::truth_on_grid(p, opt.output_times, tol, truth_why);
+            if (truth) {
+                c.reference_digits = truth->digits;
+                c.reference_evaluations = truth->evaluations;
+                c.reference_error = runs.error_against(1.0, truth->states);
+                if (!(c.reference_error <= 1.0))
+                    return finish(detail::refuse(c, refusal::tolerance_not_met,
+                                                 "the run's error against the reference is " +
+                                                     detail::certificate_number(c.reference_error) +
+                                                     " times the tolerance: tighten the controller tolerance."));
+                c.basis = "measured against the reference at controller atol " + detail::certificate_number(ct.atol) +
+                          ", rtol " + detail::certificate_number(ct.rtol);
+                return certified(evidence_level::reference_verified);
+            }
+            if (opt.require_reference)
+                return finish(detail::refuse(c, refusal::reference_unavailable,
+                                             "the reference-verified level was required, but no reference could be had: " +
+                                                 truth_why));
+        }
+        double d1 = std::numeric_limits<double>::infinity(), d2 = d1;
+        try {
+            d1 = runs.difference(1.0, 0.1);
+            d2 = runs.difference(0.1, 0.01);
+        } catch (const non_finite_value& e) {
+            return finish(detail::refuse(c, refusal::non_finite, e.what()));
+        }
+        const double q = std::log10(d1 / d2);
+        c.observed_order = q;
+        if (!(q > 0.3) || !std::isfinite(q))
+            return finish(detail::refuse(c, refusal::outside_asymptotic_range,
+                                         "the error does not fall with the controller tolerance (exponent " +
+                                             detail::certificate_number(q) + " over ct, ct/10, ct/100): no estimate holds."));
+        c.error_band = coarse_solution_error_band(d1, 10.0, q, opt.safety_factor);
+        c.estimated_error = c.error_band / opt.safety_factor;
+        c.safety_factor = opt.safety_factor;
+        c.basis = "Richardson in the controller tolerance: runs at ct, ct/10 and ct/100, exponent " +
+                  detail::certificate_number(q) + ", safety factor " + detail::certificate_number(opt.safety_factor) +
+                  (opt.verify_with_reference ? "; no reference check: " + truth_why : std::string());
+        if (!(c.error_band <= 1.0))
+            return finish(detail::refuse(c, refusal::tolerance_not_met,
+                                         "the estimated error band " + detail::certificate_number(c.error_band) +
+                                             " exceeds the tolerance: tighten the controller tolerance."));
+        return certified(evidence_level::estimated);
+    } catch (const budget_exhausted& e) {
+        return finish(detail::refuse(c, refusal::budget_exhausted, e.what()));
+    }
 }
 
 } // namespace stepcert
