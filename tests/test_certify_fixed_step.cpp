@@ -11,6 +11,8 @@
 
 #include <gtest/gtest.h>
 
+#include "test_certify_support.hpp"
+
 #include "stepcert/certify/check_certificate.hpp"
 #include "stepcert/certify/certify_fixed_step.hpp"
 #include "stepcert/certify/certify_step_count.hpp"
@@ -209,22 +211,7 @@ TEST(CertifyRefusal, BudgetExhaustedIsACertificateNotACrash) {
 // ---- Bad input ----------------------------------------------------------------------------------
 
 namespace test_certify_fixed_step {
-/// A method that declares no order (an in-house wrapper that forgot it).
-struct orderless_euler {
-    static constexpr stepcert::step_control control = stepcert::step_control::fixed;
-    std::string_view name() const { return "orderless Euler"; }
-    int order() const { return 0; }
-    template <class Rhs, class S, class T, class Obs>
-    void integrate_uniform(Rhs& f, S& y, T t0, T h, std::size_t n, std::size_t stride, Obs obs) const {
-        S dy = y;
-        obs(y, t0);
-        for (std::size_t k = 1; k <= n; ++k) {
-            f(y, dy, t0 + static_cast<T>(k - 1) * h);
-            for (std::size_t i = 0; i < y.size(); ++i) y[i] += h * dy[i];
-            if (k % stride == 0) obs(y, t0 + static_cast<T>(k) * h);
-        }
-    }
-};
+using test_certify_support::orderless_euler;
 } // namespace test_certify_fixed_step
 
 TEST(CertifyBadInput, EachIsATypedErrorWithAClearMessage) {

@@ -68,15 +68,7 @@ public:
 private:
     template <class Other>
     double measure(const trajectory<state>& r, Other&& other) {
-        const std::size_t points = r.states.size();
-        if (opt_.measured_at == error_measured_at::final_time) return tol_(r.states[points - 1], other(points - 1));
-        double worst = 0.0;
-        for (std::size_t j = 1; j < points; ++j) {
-            const double e = tol_(r.states[j], other(j));
-            if (!(e <= worst)) worst = e;
-            if (std::isnan(worst)) return std::numeric_limits<double>::infinity();
-        }
-        return worst;
+        return worst_on_grid(opt_.measured_at, r.states.size(), [&](std::size_t j) { return tol_(r.states[j], other(j)); });
     }
 
     const P& p_;
@@ -159,9 +151,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                                      "cannot be certified by its tolerance on this problem."));
     }
     c.observed_order = q_used;  // for an adaptive method: the exponent of tolerance proportionality
-    std::optional<detail::grid_truth<typename detail::adaptive_certify_runs<P, M>::state>> truth;
-    std::string truth_why;
-    bool truth_tried = false;
+    detail::truth_once<P> truths(p, opt.output_times, tol);
     try {
         for (int attempt = 0; attempt < 12; ++attempt) {
             const double s = *s_star;
@@ -194,16 +184,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                       " decades), safety factor " + detail::certificate_number(opt.safety_factor);
             c.level = evidence_level::estimated;
             if (opt.verify_with_reference) {
-                if (!truth_tried) {
-                    truth_tried = true;
-                    truth = detail::truth_on_grid(p, opt.output_times, tol, truth_why);
-                    if (truth) {
-                        c.reference_digits = truth->digits;
-                        c.reference_evaluations = truth->evaluations;
-                    }
-                }
-                if (truth) {
-                    c.reference_error = runs.error_against(s, truth->states);
+                if (const auto* truth = truths.get(c)) {
+                    c.reference_error = runs.error_against(s, *truth);
                     if (!(c.reference_error <= 1.0)) {
                         s_star = s * std::pow(opt.target / c.reference_error, 1.0 / q_used) / 1.05;
                         c.level = evidence_level::not_certified;
@@ -213,9 +195,9 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                 } else if (opt.require_reference) {
                     return finish(detail::refuse(c, refusal::reference_unavailable,
                                                  "the reference-verified level was required, but no reference could be had: " +
-                                                     truth_why));
+                                                     truths.why()));
                 } else {
-                    c.basis += "; no reference check: " + truth_why;
+                    c.basis += "; no reference check: " + truths.why();
                 }
             }
             return finish(c);
@@ -265,13 +247,10 @@ step_certificate certify_controller_tolerance(const P& p, const M& m, controller
         } catch (const non_finite_value& e) {
             return finish(detail::refuse(c, refusal::non_finite, e.what()));
         }
-        std::string truth_why;
+        detail::truth_once<P> truths(p, opt.output_times, tol);
         if (opt.verify_with_reference) {
-            const auto truth = detail::truth_on_grid(p, opt.output_times, tol, truth_why);
-            if (truth) {
-                c.reference_digits = truth->digits;
-                c.reference_evaluations = truth->evaluations;
-                c.reference_error = runs.error_against(1.0, truth->states);
+            if (const auto* truth = truths.get(c)) {
+                c.reference_error = runs.error_against(1.0, *truth);
                 if (!(c.reference_error <= 1.0))
                     return finish(detail::refuse(c, refusal::tolerance_not_met,
                                                  "the run's error against the reference is " +
@@ -284,7 +263,7 @@ step_certificate certify_controller_tolerance(const P& p, const M& m, controller
             if (opt.require_reference)
                 return finish(detail::refuse(c, refusal::reference_unavailable,
                                              "the reference-verified level was required, but no reference could be had: " +
-                                                 truth_why));
+                                                 truths.why()));
         }
         double d1 = std::numeric_limits<double>::infinity(), d2 = d1;
         try {
@@ -304,7 +283,7 @@ step_certificate certify_controller_tolerance(const P& p, const M& m, controller
         c.safety_factor = opt.safety_factor;
         c.basis = "Richardson in the controller tolerance: runs at ct, ct/10 and ct/100, exponent " +
                   detail::certificate_number(q) + ", safety factor " + detail::certificate_number(opt.safety_factor) +
-                  (opt.verify_with_reference ? "; no reference check: " + truth_why : std::string());
+                  (opt.verify_with_reference ? "; no reference check: " + truths.why() : std::string());
         if (!(c.error_band <= 1.0))
             return finish(detail::refuse(c, refusal::tolerance_not_met,
                                          "the estimated error band " + detail::certificate_number(c.error_band) +

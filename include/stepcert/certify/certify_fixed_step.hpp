@@ -335,9 +335,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
     const std::size_t k = *consistent_at;
     const std::vector<std::size_t> partners(level.begin() + static_cast<std::ptrdiff_t>(k - 2),
                                             level.begin() + static_cast<std::ptrdiff_t>(k + 1));
-    std::optional<detail::grid_truth<typename detail::certify_runs<P, M>::state>> truth;
-    std::string truth_why;
-    bool truth_tried = false;
+    detail::truth_once<P> truths(p, G, tol);
     std::string notes;
     try {
         for (int attempt = 0; attempt < 12; ++attempt) {
@@ -373,16 +371,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                       (notes.empty() ? std::string() : "; " + notes);
             c.level = evidence_level::estimated;
             if (opt.verify_with_reference) {
-                if (!truth_tried) {
-                    truth_tried = true;
-                    truth = detail::truth_on_grid(p, G, tol, truth_why);
-                    if (truth) {
-                        c.reference_digits = truth->digits;
-                        c.reference_evaluations = truth->evaluations;
-                    }
-                }
-                if (truth) {
-                    c.reference_error = runs.error_against(n_star, truth->states);
+                if (const auto* truth = truths.get(c)) {
+                    c.reference_error = runs.error_against(n_star, *truth);
                     if (!(c.reference_error <= 1.0)) {
                         notes += "N = " + std::to_string(n_star) + " failed against the reference (" +
                                  detail::certificate_number(c.reference_error) + "); ";
@@ -394,14 +384,13 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                         continue;
                     }
                     c.level = evidence_level::reference_verified;
-                    if (opt.coarsen_with_reference)
-                        detail::coarsen_against_truth(p, m, runs, truth->states, c, opt, stability_evaluations);
+                    if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
                 } else if (opt.require_reference) {
                     return finish(detail::refuse(c, refusal::reference_unavailable,
                                                  "the reference-verified level was required, but no reference could be had: " +
-                                                     truth_why));
+                                                     truths.why()));
                 } else {
-                    c.basis += "; no reference check: " + truth_why;
+                    c.basis += "; no reference check: " + truths.why();
                 }
             }
             return finish(c);

@@ -98,20 +98,15 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
                     "); the largest stable step found is " + detail::certificate_number(c.stability.step_limit) + ": take at least " +
                     std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) + " steps."));
         // With the truth at hand it decides; Richardson is then only reported (when it holds).
-        std::optional<detail::grid_truth<typename detail::certify_runs<P, M>::state>> truth;
-        std::string truth_why;
-        if (opt.verify_with_reference) {
-            truth = detail::truth_on_grid(p, G, tol, truth_why);
-            if (truth) {
-                c.reference_digits = truth->digits;
-                c.reference_evaluations = truth->evaluations;
-                c.reference_error = runs.error_against(n, truth->states);
-                if (!(c.reference_error <= 1.0))
-                    return finish(detail::refuse(c, refusal::tolerance_not_met,
-                                                 "the run's error against the reference is " +
-                                                     detail::certificate_number(c.reference_error) +
-                                                     " times the tolerance: this step does not meet it; take more steps."));
-            }
+        detail::truth_once<P> truths(p, G, tol);
+        const auto* truth = opt.verify_with_reference ? truths.get(c) : nullptr;
+        if (truth) {
+            c.reference_error = runs.error_against(n, *truth);
+            if (!(c.reference_error <= 1.0))
+                return finish(detail::refuse(c, refusal::tolerance_not_met,
+                                             "the run's error against the reference is " +
+                                                 detail::certificate_number(c.reference_error) +
+                                                 " times the tolerance: this step does not meet it; take more steps."));
         }
         const std::string richardson_problem = detail::judge_by_richardson(runs, n, p_declared, opt, c);
         if (truth) {
@@ -125,7 +120,7 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         }
         if (opt.verify_with_reference && opt.require_reference)
             return finish(detail::refuse(c, refusal::reference_unavailable,
-                                         "the reference-verified level was required, but no reference could be had: " + truth_why));
+                                         "the reference-verified level was required, but no reference could be had: " + truths.why()));
         if (!richardson_problem.empty()) return finish(detail::refuse(c, c.reason, richardson_problem));
         if (!(c.error_band <= 1.0))
             return finish(detail::refuse(c, refusal::tolerance_not_met,
@@ -134,7 +129,7 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         c.steps = n;
         c.step = length / static_cast<double>(n);
         c.level = evidence_level::estimated;
-        if (opt.verify_with_reference) c.basis += "; no reference check: " + truth_why;
+        if (opt.verify_with_reference) c.basis += "; no reference check: " + truths.why();
         return finish(c);
     } catch (const budget_exhausted& e) {
         return finish(detail::refuse(c, refusal::budget_exhausted, e.what()));

@@ -83,22 +83,6 @@ Enum certificate_enum_from_json(const nlohmann::json& j, const char* key) {
     throw invalid_input(message);
 }
 
-/// The tolerance object: the layout of norm_to_json under the key "tolerance".
-inline weighted_norm tolerance_from_json(const nlohmann::json& j) {
-    const auto& tj = typed_field(j, "tolerance", nlohmann::json::value_t::object, "an object with atol, rtol and kind");
-    return json_within("tolerance", [&] {
-        weighted_norm n;
-        n.atol = number_from_json(tj, "atol");
-        n.rtol = number_from_json(tj, "rtol");
-        const auto kind = string_from_json(tj, "kind");
-        if (kind != "max" && kind != "rms")
-            throw invalid_input("stepcert: JSON field 'kind' is '" + kind + "'; it must be \"max\" or \"rms\".");
-        n.kind = kind == "max" ? norm_kind::max : norm_kind::rms;
-        n.validate();
-        return n;
-    });
-}
-
 inline nlohmann::json stability_to_json(const stability_record& s) {
     return {{"checked", s.checked},
             {"stable", s.stable},
@@ -177,7 +161,7 @@ inline step_certificate step_certificate_from_json(const nlohmann::json& j) {
         c.observed_order = number_from_json(j, "observed_order");
         c.t0 = number_from_json(j, "t0");
         c.t1 = number_from_json(j, "t1");
-        c.tolerance = detail::tolerance_from_json(j);
+        c.tolerance = detail::norm_from_json(j, "tolerance");
         c.measured_at = detail::certificate_enum_from_json<error_measured_at>(j, "measured_at");
         c.output_times = count_from_json(j, "output_times");
         c.level = detail::certificate_enum_from_json<evidence_level>(j, "level");

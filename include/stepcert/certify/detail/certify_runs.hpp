@@ -18,6 +18,20 @@
 
 namespace stepcert::detail {
 
+/// The largest error over grid points 1 .. points - 1 (point 0 is t0, where every run starts from
+/// y0), or the last point's alone; NaN and inf win: never a small error.
+template <class F>
+double worst_on_grid(error_measured_at where, std::size_t points, F&& at_point) {
+    if (where == error_measured_at::final_time) return at_point(points - 1);
+    double worst = 0.0;
+    for (std::size_t j = 1; j < points; ++j) {
+        const double e = at_point(j);
+        if (!(e <= worst)) worst = e;
+        if (std::isnan(worst)) return std::numeric_limits<double>::infinity();
+    }
+    return worst;
+}
+
 template <class P, class M>
 class certify_runs {
 public:
@@ -75,15 +89,7 @@ public:
 private:
     template <class F>
     double measure(F&& at_point, std::size_t points) const {
-        // Grid point 0 is t0, where every run starts from y0: it carries no error.
-        if (opt_.measured_at == error_measured_at::final_time) return at_point(points - 1);
-        double worst = 0.0;
-        for (std::size_t j = 1; j < points; ++j) {
-            const double e = at_point(j);
-            if (!(e <= worst)) worst = e;  // NaN and inf win: never a small error
-            if (std::isnan(worst)) return std::numeric_limits<double>::infinity();
-        }
-        return worst;
+        return worst_on_grid(opt_.measured_at, points, at_point);
     }
 
     const P& p_;

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "stepcert/certify/certificate.hpp"
 #include "stepcert/core/norm.hpp"
 #include "stepcert/core/state.hpp"
 #include "stepcert/reference/exact_evaluation.hpp"
@@ -77,5 +78,35 @@ auto truth_on_grid(const P& p, std::size_t G, const weighted_norm& tol, std::str
         }
     }
 }
+
+/// The truth, computed the first time it is asked for, and recorded in the certificate (its
+/// digits and cost) whenever it is at hand; why() says why not, when it is not.
+template <class P>
+class truth_once {
+public:
+    using state = rebind_state<typename P::state_type, double>;
+
+    truth_once(const P& p, std::size_t G, const weighted_norm& tol) : p_(p), G_(G), tol_(tol) {}
+
+    const std::vector<state>* get(step_certificate& c) {
+        if (!tried_) {
+            tried_ = true;
+            truth_ = truth_on_grid(p_, G_, tol_, why_);
+        }
+        if (!truth_) return nullptr;
+        c.reference_digits = truth_->digits;
+        c.reference_evaluations = truth_->evaluations;
+        return &truth_->states;
+    }
+    const std::string& why() const { return why_; }
+
+private:
+    const P& p_;
+    std::size_t G_;
+    weighted_norm tol_;
+    bool tried_ = false;
+    std::optional<grid_truth<state>> truth_;
+    std::string why_;
+};
 
 } // namespace stepcert::detail

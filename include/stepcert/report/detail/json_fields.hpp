@@ -34,9 +34,10 @@ inline nlohmann::json norm_to_json(const weighted_norm& n) {
     return {{"atol", json_number(n.atol)}, {"rtol", json_number(n.rtol)}, {"kind", n.kind == norm_kind::max ? "max" : "rms"}};
 }
 
-inline weighted_norm norm_from_json(const nlohmann::json& j) {
-    const auto& nj = typed_field(j, "norm", nlohmann::json::value_t::object, "an object with atol, rtol and kind");
-    return json_within("norm", [&] {
+/// The layout of norm_to_json under `key` ("norm" in estimates, "tolerance" in certificates).
+inline weighted_norm norm_from_json(const nlohmann::json& j, const char* key = "norm") {
+    const auto& nj = typed_field(j, key, nlohmann::json::value_t::object, "an object with atol, rtol and kind");
+    return json_within(key, [&] {
         weighted_norm n;
         n.atol = number_from_json(nj, "atol");
         n.rtol = number_from_json(nj, "rtol");
