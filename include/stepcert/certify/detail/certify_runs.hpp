@@ -46,14 +46,25 @@ public:
     const run_type& at(std::size_t n) {
         auto it = runs_.find(n);
         if (it != runs_.end()) return it->second;
+        if (auto f = failed_.find(n); f != failed_.end()) throw non_finite_value(f->second);
         run_options ro;
         ro.max_evaluations = opt_.max_evaluations - std::min(opt_.max_evaluations, evaluations_);
         if (ro.max_evaluations == 0)
             throw budget_exhausted("stepcert::certify: the evaluation budget is spent before the run with " +
                                    std::to_string(n) + " steps; raise max_evaluations.");
-        auto run = run_uniform<double>(p_, m_, n, n / opt_.output_times, ro);
-        evaluations_ += run.stats.evaluations;
-        return runs_.emplace(n, std::move(run)).first->second;
+        try {
+            auto run = run_uniform<double>(p_, m_, n, n / opt_.output_times, ro);
+            evaluations_ += run.stats.evaluations;
+            // A run that blew up reports no count: it is charged as if it had finished, at the
+            // rate of the first run that did (an upper bound).
+            evaluations_ += failed_steps_ * run.stats.evaluations / n;
+            failed_steps_ = 0;
+            return runs_.emplace(n, std::move(run)).first->second;
+        } catch (const non_finite_value& e) {
+            failed_.emplace(n, e.what());
+            failed_steps_ += n;
+            throw;
+        }
     }
 
     /// Largest (or final) weighted difference between two runs' states on the grid.
@@ -97,6 +108,8 @@ private:
     weighted_norm tol_;
     certify_options opt_;
     std::map<std::size_t, run_type> runs_;
+    std::map<std::size_t, std::string> failed_;  ///< runs that blew up, by step count: not run twice
+    std::size_t failed_steps_ = 0;               ///< their steps, not yet charged
     std::size_t evaluations_ = 0;
 };
 
