@@ -35,6 +35,7 @@
 namespace {
 
 using report_test::lines_of;
+using report_test::expect_rejected;
 using nlohmann::json;
 
 constexpr std::size_t n_steps = 16;
@@ -112,17 +113,6 @@ void expect_document(const json& j, const char* format) {
     EXPECT_EQ(j.at("format"), format);
     EXPECT_EQ(j.at("format_version"), 1);
     expect_caution(j.at("caution").get<std::string>());
-}
-
-/// `read` throws invalid_input whose message holds every part.
-void expect_rejected(const std::function<void()>& read, std::initializer_list<const char*> parts) {
-    try {
-        read();
-        ADD_FAILURE() << "accepted a malformed document";
-    } catch (const stepcert::invalid_input& e) {
-        const std::string message = e.what();
-        for (const char* part : parts) EXPECT_NE(message.find(part), std::string::npos) << "'" << part << "' not in: " << message;
-    }
 }
 
 /// Field `k` (0-based) of a CSV line without quoted fields.

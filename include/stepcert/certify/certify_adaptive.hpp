@@ -192,12 +192,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                         continue;
                     }
                     c.level = evidence_level::reference_verified;
-                } else if (opt.require_reference) {
-                    return finish(detail::refuse(c, refusal::reference_unavailable,
-                                                 "the reference-verified level was required, but no reference could be had: " +
-                                                     truths.why()));
-                } else {
-                    c.basis += "; no reference check: " + truths.why();
+                } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
+                    return finish(*refused);
                 }
             }
             return finish(c);

@@ -32,6 +32,7 @@
 #include "stepcert/certify/stability_check.hpp"
 #include "stepcert/core/concepts.hpp"
 #include "stepcert/core/error.hpp"
+#include "stepcert/core/number_text.hpp"
 #include "stepcert/core/problem.hpp"
 #include "stepcert/methods/method.hpp"
 #include "stepcert/study/richardson.hpp"
@@ -43,11 +44,7 @@ namespace detail {
 inline std::size_t round_up_to(std::size_t n, std::size_t G) { return std::max<std::size_t>(G, (n + G - 1) / G * G); }
 
 /// Four significant digits, for certificate texts.
-inline std::string certificate_number(double x) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.4g", x);
-    return buf;
-}
+inline std::string certificate_number(double x) { return formatted_number(x, "%.4g"); }
 
 template <class P, class M>
 void check_certify_arguments(const P& p, const M& m, const weighted_norm& tol, const certify_options& opt,
@@ -88,6 +85,16 @@ inline step_certificate refuse(step_certificate c, refusal why, std::string deta
     c.step = std::numeric_limits<double>::quiet_NaN();
     c.controller_atol = c.controller_rtol = std::numeric_limits<double>::quiet_NaN();
     return c;
+}
+
+/// No truth at hand: a refusal when the reference-verified level was required, else the reason
+/// noted in the basis (the certificate stays estimated).
+inline std::optional<step_certificate> without_truth(step_certificate& c, const certify_options& opt, const std::string& why) {
+    if (opt.require_reference)
+        return refuse(c, refusal::reference_unavailable,
+                      "the reference-verified level was required, but no reference could be had: " + why);
+    c.basis += "; no reference check: " + why;
+    return std::nullopt;
 }
 
 /// The round-off level of one step at y0, in tolerance units: eps |y0| per component.
@@ -385,12 +392,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                     }
                     c.level = evidence_level::reference_verified;
                     if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
-                } else if (opt.require_reference) {
-                    return finish(detail::refuse(c, refusal::reference_unavailable,
-                                                 "the reference-verified level was required, but no reference could be had: " +
-                                                     truths.why()));
-                } else {
-                    c.basis += "; no reference check: " + truths.why();
+                } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
+                    return finish(*refused);
                 }
             }
             return finish(c);

@@ -14,6 +14,7 @@
 
 #include "stepcert/certify/certificate.hpp"
 #include "stepcert/core/norm.hpp"
+#include "stepcert/core/number_text.hpp"
 #include "stepcert/report/certificate_caution.hpp"
 
 namespace stepcert {
@@ -21,13 +22,7 @@ namespace stepcert {
 namespace detail {
 
 /// `x` printed with the printf format `fmt`; NaN "n/a", infinities "inf"/"-inf".
-inline std::string certificate_number(double x, const char* fmt) {
-    if (std::isnan(x)) return "n/a";
-    if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-    char buf[64];
-    std::snprintf(buf, sizeof buf, fmt, x);
-    return buf;
-}
+inline std::string certificate_number(double x, const char* fmt) { return formatted_number(x, fmt, "n/a"); }
 
 /// What each level rests on. No default label: -Wswitch flags a level added later.
 inline std::string_view evidence_in_words(evidence_level l) {

@@ -8,6 +8,7 @@
 #include <string>
 #include <string_view>
 
+#include "stepcert/core/number_text.hpp"
 #include "stepcert/study/study_result.hpp"
 
 namespace stepcert {
@@ -20,13 +21,7 @@ inline constexpr std::string_view study_caution =
     "professional.";
 
 namespace detail {
-inline std::string table_number(double x, const char* fmt = "%.3e") {
-    if (std::isnan(x)) return "-";
-    if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-    char buf[48];
-    std::snprintf(buf, sizeof buf, fmt, x);
-    return buf;
-}
+inline std::string table_number(double x, const char* fmt = "%.3e") { return formatted_number(x, fmt, "-"); }
 inline std::string_view range_mark(level_status s) {
     switch (s) {
     case level_status::in_range: return "* in range";

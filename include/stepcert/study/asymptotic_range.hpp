@@ -37,6 +37,7 @@
 #include <vector>
 
 #include "stepcert/core/error.hpp"
+#include "stepcert/core/number_text.hpp"
 
 namespace stepcert {
 
@@ -103,11 +104,7 @@ struct asymptotic_range {
 };
 
 namespace detail {
-inline std::string short_number(double x, const char* fmt = "%.3g") {
-    char buf[48];
-    std::snprintf(buf, sizeof buf, fmt, x);
-    return buf;
-}
+inline std::string short_number(double x, const char* fmt = "%.3g") { return formatted_number(x, fmt); }
 // Widening of the order spread for step ratio rho (see the header comment).
 inline double ratio_widening(double rho) {
     if (!(rho > 1.0)) return 4.0;

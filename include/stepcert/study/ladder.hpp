@@ -14,16 +14,13 @@
 #include <vector>
 
 #include "stepcert/core/error.hpp"
+#include "stepcert/core/number_text.hpp"
 #include "stepcert/methods/method.hpp"
 
 namespace stepcert {
 
 namespace detail {
-inline std::string number_text(double x) {
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%.6g", x);
-    return buf;
-}
+inline std::string number_text(double x) { return formatted_number(x, "%.6g"); }
 inline void check_ratio_and_levels(const char* who, double ratio, std::size_t levels) {
     if (!std::isfinite(ratio) || !(ratio > 1.0))
         throw invalid_input(std::string("stepcert: ") + who + ": the refinement ratio must be a finite number > 1 (got " +
