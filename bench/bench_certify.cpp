@@ -5,7 +5,9 @@
 // evaluations / those of one production run at the certified step N), steps (N) and issued;
 // production/<case> times that one production run, so the wall-time ratio comes from the same
 // program run. The summary at the end gives median, 90th percentile and max of both ratios, the
-// share within the acceptance target (at most 3x the evaluations of one production run), and, for
+// share within the acceptance target (at most 3x the evaluations of one production run), the
+// ratio against one run of the finest run the evidence needed (search_ratio: where the order only
+// shows on runs finer than the certified one, the search cannot cost less than those), and, for
 // the worst cases, the certificate's basis and the runs its search made, traced by certifying once
 // more with a right-hand side that logs its calls (which also checks certificate.evaluations).
 // Run from a Release build (about 25 s here) with
@@ -74,6 +76,10 @@ struct case_record {
     bool issued = false;
     std::size_t steps = 0, certify_evaluations = 0, production_evaluations = 0;
     double cost_ratio = std::numeric_limits<double>::quiet_NaN();
+    /// Evaluations / one production run of the finest run the evidence needed: the certified run,
+    /// or the finer run a pre-asymptotic one was judged from ("from the run with M steps").
+    double search_ratio = std::numeric_limits<double>::quiet_NaN();
+    std::size_t evidence_steps = 0;
     std::string basis;  ///< the certificate's basis, or its refusal
     std::function<search_trace(const case_record&)> trace;  ///< certifies once more, traced
 };
@@ -94,6 +100,11 @@ void record(case_record& r, const P& p, const M& m, const stepcert::step_certifi
         r.production_evaluations = stepcert::run_uniform(p, m, c.steps).stats.evaluations;
         r.cost_ratio = static_cast<double>(c.evaluations) / static_cast<double>(r.production_evaluations);
         r.basis = c.basis;
+        const std::string key = "from the run with ";
+        const auto at = c.basis.find(key);
+        r.evidence_steps = at == std::string::npos ? c.steps : std::stoul(c.basis.substr(at + key.size()));
+        r.search_ratio = static_cast<double>(c.evaluations) /
+                         static_cast<double>(stepcert::run_uniform(p, m, r.evidence_steps).stats.evaluations);
     } else {
         r.basis = std::string(stepcert::to_string(c.reason));
         r.basis += ": ";
@@ -211,6 +222,7 @@ void add_cases(std::shared_ptr<const P> p, const std::string& problem_label, std
             }
             record(r, *p, *m, c);
             s.counters["cost_ratio"] = r.cost_ratio;
+            s.counters["search_ratio"] = r.search_ratio;
             s.counters["steps"] = static_cast<double>(r.steps);
             s.counters["issued"] = r.issued ? 1.0 : 0.0;
         })->Unit(benchmark::kMicrosecond);
@@ -296,16 +308,16 @@ std::string explain(const search_trace& t) {
     out += buf;
     if (t.creeping >= 3) {
         std::snprintf(buf, sizeof buf,
-                      "\n   why: %zu of the %zu complete runs below N were at most 1.3x finer than the one before: once the "
-                      "declared order predicts N* below 1.25 n, the ladder moves by 1.25x until three levels show that order, "
-                      "and such a ladder costs up to 4 N below N (doubling: up to 1 N)",
+                      "\n   why: %zu of the %zu complete runs below N were at most 1.3x finer than the one before: the "
+                      "ladder aimed at a prediction more than once (a ladder of 1.25x steps costs up to 4 N below N; "
+                      "doubling: up to 1 N)",
                       t.creeping, t.below);
         out += buf;
     }
     if (t.finer_runs > 0) {
         std::snprintf(buf, sizeof buf,
                       "\n   why: %zu run(s) finer than N (%.2f production runs): the declared order first showed on three "
-                      "levels reaching above N, and N is the prediction from them (never below the coarsest of the three)",
+                      "levels reaching above N; N is judged by its difference from the finest of them plus that run's band",
                       t.finer_runs, t.finer);
         out += buf;
     }
@@ -332,7 +344,7 @@ void print_group(const std::vector<const case_record*>& issued, const std::strin
 }
 
 void summarize(const timing_reporter& rep) {
-    std::vector<double> cost, traced_cost, wall, cpu;
+    std::vector<double> cost, search, traced_cost, wall, cpu;
     std::vector<const case_record*> issued;
     std::map<const case_record*, std::pair<double, double>> times;  // certify, production (us)
     std::map<const case_record*, search_trace> traces;
@@ -348,6 +360,7 @@ void summarize(const timing_reporter& rep) {
         }
         issued.push_back(&r);
         cost.push_back(r.cost_ratio);
+        search.push_back(r.search_ratio);
         try {
             const auto& t = traces[&r] = r.trace(r);
             traced_cost.push_back(t.total);
@@ -369,6 +382,7 @@ void summarize(const timing_reporter& rep) {
                 not_run ? ", the rest filtered out" : "");
     print_distribution("evaluations (cost_ratio):", cost);
     print_distribution("evaluations, traced:", traced_cost);
+    print_distribution("evaluations / finest run needed:", search);
     print_distribution("wall time (certify / production):", wall);
     print_distribution("CPU time (certify / production):", cpu);
     const auto missed = std::count_if(cost.begin(), cost.end(), [](double x) { return x > cost_target; });

@@ -1,11 +1,16 @@
 // Issue 5's acceptance of the fixed-step certification, on 10 problems x 4 methods x 3
-// tolerances, at the estimated level (Richardson x safety factor, no reference consulted):
+// tolerances, at the estimated level (Richardson x safety factor, no reference consulted) and at
+// the reference-verified level (the default):
 //  * no false certificates: every issued step meets the tolerance against the exact solution or
 //    stepcert's multiprecision reference (any miss fails);
 //  * sharp: the certified h is at least 0.5 x the largest uniform h that truly meets it (the
 //    fewest steps found by bisection against the truth);
-//  * the cost in right-hand-side evaluations relative to one production run at the certified step
-//    is printed (bench/bench_certify.cpp is where its target is measured).
+//  * cost, estimated level, in right-hand-side evaluations (counted, so exact; bench/
+//    bench_certify.cpp adds wall time): relative to one production run at the certified step it
+//    is printed; relative to one production run of the finest run the evidence needed (the
+//    certified run, or the finer run a pre-asymptotic one is measured from) it is at most 3.
+//    The first cannot be held to 3 everywhere: the order must be seen, on runs that can be far
+//    finer than the step the tolerance needs.
 // Ground truth: exact solutions (Kepler's equation; linear systems by their eigen-decomposition;
 // Prothero and Robinson 1974), and reference solutions in cpp_bin_float_38 for the two
 // scenarios without a closed form.
@@ -18,6 +23,8 @@
 #include <vector>
 
 #include <gtest/gtest.h>
+
+#include "test_certify_support.hpp"
 
 #include "stepcert/certify/certify_fixed_step.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
@@ -46,7 +53,7 @@ double median(std::vector<double> v) {
 
 struct tally {
     int issued = 0, refused = 0, false_certificates = 0;
-    std::vector<double> sharpness, cost;
+    std::vector<double> sharpness, cost, search_cost;
     std::vector<std::string> refusals;
 };
 
@@ -108,11 +115,18 @@ void certify_and_judge(const P& p, const M& m, const std::vector<typename P::sta
         t.sharpness.push_back(static_cast<double>(hi * grid) / static_cast<double>(c.steps));
         const double production = static_cast<double>(stepcert::run_uniform(p, m, c.steps).stats.evaluations);
         t.cost.push_back(static_cast<double>(c.evaluations) / production);
+        const std::size_t finest = test_certify_support::finest_run_of_evidence(c);
+        t.search_cost.push_back(static_cast<double>(c.evaluations) /
+                                static_cast<double>(stepcert::run_uniform(p, m, finest).stats.evaluations));
+        if (!with_reference) {
+            EXPECT_LE(t.search_cost.back(), 3.0) << p.name() << " / " << m.name() << " / tol " << tol_value << ": N = "
+                                                 << c.steps << ", finest run " << finest;
+        }
         if (with_reference) {
             EXPECT_EQ(c.level, stepcert::evidence_level::reference_verified) << p.name() << " / " << m.name();
-            EXPECT_GE(t.sharpness.back(), 0.5) << p.name() << " / " << m.name() << " / tol " << tol_value << ": N = " << c.steps
-                                           << ", fewest meeting " << hi * grid;
         }
+        EXPECT_GE(t.sharpness.back(), 0.5) << p.name() << " / " << m.name() << " / tol " << tol_value << ": N = " << c.steps
+                                       << ", fewest meeting " << hi * grid;
     }
 }
 
@@ -131,10 +145,13 @@ void all_methods(const P& p, tally& estimated, tally& verified) {
 
 void print(const char* what, const tally& t) {
     std::printf("%s: %d issued, %d refused, %d false; sharpness (fewest meeting N / certified N) median %.3f, min %.3f; "
-                "cost (certifying / one production run, evaluations) median %.2f, max %.2f\n",
+                "cost (certifying / one production run at the certified step, evaluations) median %.2f, max %.2f, "
+                "at most 3 in %d; (certifying / one production run of the finest run needed) median %.2f, max %.2f\n",
                 what, t.issued, t.refused, t.false_certificates, median(t.sharpness),
                 *std::min_element(t.sharpness.begin(), t.sharpness.end()), median(t.cost),
-                *std::max_element(t.cost.begin(), t.cost.end()));
+                *std::max_element(t.cost.begin(), t.cost.end()),
+                static_cast<int>(std::count_if(t.cost.begin(), t.cost.end(), [](double x) { return x <= 3.0; })),
+                median(t.search_cost), *std::max_element(t.search_cost.begin(), t.search_cost.end()));
     for (const auto& r : t.refusals) std::printf("  refused: %s\n", r.c_str());
 }
 
@@ -142,9 +159,8 @@ void print(const char* what, const tally& t) {
 
 using namespace test_acceptance_certify;
 
-// Estimated level: no false certificate allowed; its sharpness is reported, not asserted, since
-// it may not certify a step coarser than the range where the declared order is observed.
-// Reference-verified level (the default): no false certificate, and sharp.
+// Both levels: no false certificate, and sharp. Estimated level: the search within 3 production
+// runs of the finest run it needed.
 TEST(CertifyAcceptance, NoFalseCertificatesAndSharpSteps) {
     namespace pr = stepcert::problems;
     tally estimated, verified;

@@ -18,7 +18,9 @@
 #include "stepcert/certify/certify_step_count.hpp"
 #include "stepcert/core/error.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
+#include "stepcert/methods/dormand_prince54.hpp"
 #include "stepcert/methods/explicit_midpoint.hpp"
+#include "stepcert/problems/dahlquist.hpp"
 #include "stepcert/problems/kepler.hpp"
 #include "stepcert/problems/prothero_robinson.hpp"
 #include "stepcert/problems/suspension_rig.hpp"
@@ -127,6 +129,43 @@ TEST(CertifyFixedStep, EstimatedLevelMeetsTheToleranceAgainstTheExactSolution) {
 
 // Measured at t1 only, the certified step may be larger than when every output time counts
 // (never smaller: t1 is one of the output times).
+// y' = -40 y on [0, 1] (exact solution e^(-40 t)) with Dormand-Prince 5 at 1e-3: the 5th order
+// (Dormand and Prince 1980; common practice, no source) only shows from about 200 steps, while
+// about 32 meet the tolerance. Below the asymptotic range a run is judged by its difference from
+// the Richardson-certified finer run plus that run's band (triangle inequality), which reaches a
+// sharp step; the search itself spends at most 3 production runs of the finest run it needed.
+// certify_step_count re-judges the coarse step the same way, and refuses a step that misses.
+TEST(CertifyFixedStep, CoarserRunBeforeTheAsymptoticRangeIsJudgedByItsDifference) {
+    const auto p = stepcert::problems::dahlquist(-40.0, 1.0);
+    const auto& m = stepcert::dormand_prince54;
+    const stepcert::weighted_norm tol{1e-3, 1e-3, stepcert::norm_kind::max};
+    stepcert::certify_options opt;
+    opt.verify_with_reference = false;
+    const auto c = stepcert::certify(p, m, tol, opt);
+    ASSERT_TRUE(c.issued()) << c.reason_detail;
+    EXPECT_EQ(c.level, evidence_level::estimated);
+    EXPECT_NE(c.basis.find("difference"), std::string::npos) << c.basis;
+    EXPECT_LE(exact_error(p, m, c.steps, 8, tol), 1.0);
+    EXPECT_LE(c.error_band, 0.9);
+    EXPECT_TRUE(c.stability.checked && c.stability.stable);
+    const std::size_t fewest = fewest_steps_meeting(p, m, 8, tol, 8, c.steps);
+    EXPECT_GE(static_cast<double>(fewest) / static_cast<double>(c.steps), 0.5) << "N = " << c.steps << ", fewest " << fewest;
+    const std::size_t finest = test_certify_support::finest_run_of_evidence(c);
+    EXPECT_GT(finest, 2 * c.steps) << c.basis;
+    EXPECT_LE(c.evaluations, 3 * stepcert::run_uniform(p, m, finest).stats.evaluations);
+
+    const auto again = stepcert::certify_step_count(p, m, c.steps, tol, opt);
+    ASSERT_TRUE(again.issued()) << again.reason_detail;
+    EXPECT_EQ(again.level, evidence_level::estimated);
+    EXPECT_NE(again.basis.find("difference"), std::string::npos) << again.basis;
+    ASSERT_GT(fewest, 8u);
+    const std::size_t missing = fewest - 8;
+    ASSERT_GT(exact_error(p, m, missing, 8, tol), 1.0);
+    const auto short_step = stepcert::certify_step_count(p, m, missing, tol, opt);
+    EXPECT_FALSE(short_step.issued());
+    EXPECT_EQ(short_step.reason, refusal::tolerance_not_met) << short_step.reason_detail;
+}
+
 TEST(CertifyFixedStep, FinalTimeOnlyNeverNeedsMoreSteps) {
     const auto p = stepcert::problems::kepler(0.5, 20.0);
     stepcert::certify_options every, final_only;

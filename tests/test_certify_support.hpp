@@ -1,8 +1,10 @@
 #pragma once
 // Helpers shared by the certification tests.
 #include <cstddef>
+#include <string>
 #include <string_view>
 
+#include "stepcert/certify/certificate.hpp"
 #include "stepcert/methods/method.hpp"
 
 namespace test_certify_support {
@@ -23,5 +25,14 @@ struct orderless_euler {
         }
     }
 };
+
+/// The finest run the evidence of an estimated certificate needed: the run its difference was
+/// measured from ("... from the run with N steps plus that run's band ..."), else the certified
+/// run itself.
+inline std::size_t finest_run_of_evidence(const stepcert::step_certificate& c) {
+    const std::string key = "from the run with ";
+    const auto at = c.basis.find(key);
+    return at == std::string::npos ? c.steps : std::stoul(c.basis.substr(at + key.size()));
+}
 
 } // namespace test_certify_support

@@ -97,9 +97,9 @@ struct step_certificate {
     double controller_rtol = std::numeric_limits<double>::quiet_NaN();
 
     // The evidence, in tolerance units (<= 1: met).
-    double estimated_error = std::numeric_limits<double>::quiet_NaN();  ///< Richardson estimate at N
+    double estimated_error = std::numeric_limits<double>::quiet_NaN();  ///< Richardson (+ difference: basis)
     double safety_factor = std::numeric_limits<double>::quiet_NaN();
-    double error_band = std::numeric_limits<double>::quiet_NaN();       ///< safety factor * estimate
+    double error_band = std::numeric_limits<double>::quiet_NaN();       ///< safety factor * Richardson part (+ difference)
     std::string basis;                                                 ///< the runs and formula behind it
     double bound = std::numeric_limits<double>::quiet_NaN();            ///< rigorous bound, if one was given
     double reference_error = std::numeric_limits<double>::quiet_NaN();  ///< measured against the reference

@@ -8,13 +8,16 @@
 //
 // The search doubles N from a coarse start (the stability limit at y0, or a few steps) until
 // three successive runs show the declared order (observed within order_tolerance) above the
-// round-off floor: the asymptotic range. From there the Richardson estimate of the finest run's
-// error, times the Grid Convergence Index safety factor (P. J. Roache 1998; I. B. Celik et al.,
-// J. Fluids Eng. 130(7) 078001, 2008), predicts N* with C h^p scaling; N* is then confirmed by
-// its own run against a ladder run (any ratio), its stability is checked (h lambda inside the
-// method's region for every decaying eigenvalue sampled along the run), and, when asked and
-// possible, its error is measured against the exact solution or a multiprecision reference.
-// N* is never taken below the coarsest run of the range the order was observed on.
+// round-off floor: the asymptotic range. Once a prediction says N* lies past the last run, the
+// next run is aimed at it rather than doubled. The Richardson estimate of the finest run's error,
+// times the Grid Convergence Index safety factor (P. J. Roache 1998; I. B. Celik et al., J. Fluids
+// Eng. 130(7) 078001, 2008), certifies that run, or predicts N* past it with C h^p scaling and
+// one more run confirms it. A coarser run already made is then taken if its difference from the
+// certified run plus that run's band meets the target (triangle inequality: nothing is assumed
+// about the coarser run, which may lie before the asymptotic range). Its stability is checked
+// (h lambda inside the method's region for every decaying eigenvalue sampled along the run), and,
+// when asked and possible, its error is measured against the exact solution or a multiprecision
+// reference, which may then show a still coarser step meets the tolerance.
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
@@ -160,6 +163,32 @@ inline std::size_t richardson_partner(std::size_t n, const std::vector<std::size
     return best;
 }
 
+/// A run coarser than the certified one (c.steps, with its Richardson band) meets the tolerance
+/// if its difference from that run plus that band does, by the triangle inequality at each
+/// output time; nothing is assumed about the coarser run's own convergence, so it may lie before
+/// the asymptotic range. Only runs already made are judged (no new evaluations but the stability
+/// check), coarsest first; the taken run must be stable.
+template <class P, class M>
+void coarsen_by_difference(const P& p, const M& m, certify_runs<P, M>& runs, step_certificate& c, const certify_options& opt,
+                           std::size_t& stability_evaluations) {
+    const std::size_t fine = c.steps;
+    for (const std::size_t n : runs.completed()) {
+        if (n >= fine) break;
+        const double d = runs.difference(n, fine);
+        if (!(d + c.error_band <= opt.target)) continue;
+        const stability_record st = stability_of_run(p, m, runs, n, opt, stability_evaluations);
+        if (st.checked && !st.stable) continue;
+        c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(fine) +
+                  " steps plus that run's band " + certificate_number(c.error_band) + " (" + c.basis + ")";
+        c.estimated_error = d + c.estimated_error;
+        c.error_band = d + c.error_band;
+        c.steps = n;
+        c.step = static_cast<double>(p.t1() - p.t0()) / static_cast<double>(n);
+        c.stability = st;
+        return;
+    }
+}
+
 /// With the truth at hand, a coarser step than the Richardson one may be shown to meet the
 /// tolerance directly (before the asymptotic range, where no estimate may be trusted): N is
 /// lowered by the measured error's h^p scaling, then bisected, keeping only runs that are
@@ -265,9 +294,10 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
     double p_used = p_declared, p_seen = std::numeric_limits<double>::quiet_NaN();
     std::size_t n_star = 0;
     bool reached_round_off = false;
-    auto predicted = [&](std::size_t coarse, std::size_t fine, double d, double order) {
+    // N* for a share of the target (below 1 leaves room for the estimate's scatter between runs).
+    auto predicted = [&](std::size_t coarse, std::size_t fine, double d, double order, double share) {
         const double band = detail::richardson_band(d, fine, coarse, order, opt.safety_factor);
-        const double want = static_cast<double>(fine) * std::pow(band / opt.target, 1.0 / p_declared);
+        const double want = static_cast<double>(fine) * std::pow(band / (share * opt.target), 1.0 / p_declared);
         return detail::round_up_to(static_cast<std::size_t>(std::min(std::ceil(want), 1e18)), G);
     };
     try {
@@ -291,27 +321,32 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                     reached_round_off = true;
                     break;
                 }
+                double p_aim = p_declared;
                 if (k >= 2 && std::isfinite(diff[k - 1])) {
                     const double observed = three_level_order(length / static_cast<double>(level[k - 2]),
                                                               length / static_cast<double>(level[k - 1]),
                                                               length / static_cast<double>(n), diff[k - 1], d);
                     if (std::abs(observed - p_declared) <= opt.order_tolerance) {
                         p_seen = observed;
-                        p_used = std::min(observed, static_cast<double>(p_declared));
-                        const std::size_t candidate = predicted(level[k - 1], n, d, p_used);
+                        p_used = p_aim = std::min(observed, static_cast<double>(p_declared));
+                        // A run past n is aimed at 0.97 of the target: a second try would cost a run.
+                        const std::size_t candidate = predicted(level[k - 1], n, d, p_used, 0.97);
                         if (candidate <= 2 * n) {
                             consistent_at = k;
-                            // Within 15 % of the level just run: certify that run, no new one.
-                            n_star = (candidate <= n && 20 * candidate >= 17 * n) ? n : std::max(candidate, level[k - 2]);
+                            // The finest run of the range, or the one run past it the prediction asks
+                            // for; coarser runs are judged afterwards by their difference from it.
+                            n_star = std::max(candidate, n);
                             break;
                         }
                     }
                 }
-                // Aim a little finer than needed (0.9 of the target), so the level is likely to pass.
-                const std::size_t aim = detail::round_up_to(static_cast<std::size_t>(std::ceil(
-                    static_cast<double>(predicted(level[k - 1], n, d, p_declared)) * std::pow(1.0 / 0.9, 1.0 / p_declared))), G);
+                // Aim a little finer than needed (0.9 of the target), with the order seen if it is
+                // in range (a lower one asks for more steps), so the level is likely to pass.
+                const std::size_t aim = predicted(level[k - 1], n, d, p_aim, 0.8);
                 // Not closer than 1.25 n: the last two levels must differ by more than rounding.
-                if (aim < next) next = std::max(aim, detail::round_up_to(n + n / 4, G));
+                // A prediction at or below n, before the order has shown, is no aim: the search
+                // doubles on to find the asymptotic range (steps of 1.25 would cost ~5 runs).
+                if (aim > n && aim < next) next = std::max(aim, detail::round_up_to(n + n / 4, G));
             }
             n = next;
         }
@@ -377,6 +412,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                       std::to_string(level[k]) + " steps), safety factor " + detail::certificate_number(opt.safety_factor) +
                       (notes.empty() ? std::string() : "; " + notes);
             c.level = evidence_level::estimated;
+            detail::coarsen_by_difference(p, m, runs, c, opt, stability_evaluations);
             if (opt.verify_with_reference) {
                 if (const auto* truth = truths.get(c)) {
                     c.reference_error = runs.error_against(n_star, *truth);

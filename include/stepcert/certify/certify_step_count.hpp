@@ -4,7 +4,9 @@
 // available) its error against that truth decides: reference-verified. Otherwise the runs with N,
 // 2N and 4N steps give the observed order (it must agree with the declared one) and the
 // Richardson band of the run with N steps, safety * |y_N - y_2N| 2^p / (2^p - 1), which must
-// meet the tolerance: estimated. check_certificate uses it to re-judge a stored certificate.
+// meet the tolerance: estimated. Where N is before the asymptotic range, a finer run inside it
+// stands in as a reference: its difference from the run with N steps plus its own band must meet
+// the tolerance. check_certificate uses it to re-judge a stored certificate.
 #include <cmath>
 #include <cstddef>
 #include <limits>
@@ -58,6 +60,43 @@ std::string judge_by_richardson(certify_runs<P, M>& runs, std::size_t n, int p_d
     return "";
 }
 
+/// Before the asymptotic range Richardson says nothing about the run with n steps, but a finer
+/// run m = 2^j n inside the range does (its runs m, 2m, 4m show the order), and then
+/// |y_n - y_m| + band(m) bounds the error of y_n at each output time (triangle inequality), as
+/// certify's coarsening does. Fills c and returns "" when such an m is found within
+/// finer_levels doublings, else returns why not (c.reason set).
+template <class P, class M>
+std::string judge_by_finer_run(certify_runs<P, M>& runs, std::size_t n, int p_declared, const certify_options& opt,
+                               step_certificate& c, std::string why_not) {
+    constexpr int finer_levels = 10;
+    std::size_t m = n;
+    for (int j = 1; j <= finer_levels; ++j) {
+        m *= 2;
+        step_certificate f = c;
+        const std::string problem = judge_by_richardson(runs, m, p_declared, opt, f);
+        if (!problem.empty()) {
+            if (f.reason != refusal::outside_asymptotic_range) return c.reason = f.reason, problem;
+            continue;
+        }
+        double d = std::numeric_limits<double>::infinity();
+        try {
+            d = runs.difference(n, m);
+        } catch (const non_finite_value&) {
+        }
+        c.reason = refusal::none;
+        c.observed_order = f.observed_order;
+        c.safety_factor = opt.safety_factor;
+        c.estimated_error = d + f.estimated_error;
+        c.error_band = d + f.error_band;
+        c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(m) +
+                  " steps plus that run's band " + certificate_number(f.error_band) + " (" + f.basis + ")";
+        return "";
+    }
+    c.reason = refusal::outside_asymptotic_range;
+    return why_not + " Nor did the runs up to " + std::to_string(m) + " steps show the declared order, so no finer run "
+                     "can stand in as a reference.";
+}
+
 } // namespace detail
 
 template <problem_like P, fixed_step_method M>
@@ -108,7 +147,7 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
                                                  detail::certificate_number(c.reference_error) +
                                                  " times the tolerance: this step does not meet it; take more steps."));
         }
-        const std::string richardson_problem = detail::judge_by_richardson(runs, n, p_declared, opt, c);
+        std::string richardson_problem = detail::judge_by_richardson(runs, n, p_declared, opt, c);
         if (truth) {
             c.reason = refusal::none;
             c.steps = n;
@@ -121,6 +160,8 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         if (opt.verify_with_reference && opt.require_reference)
             return finish(detail::refuse(c, refusal::reference_unavailable,
                                          "the reference-verified level was required, but no reference could be had: " + truths.why()));
+        if (c.reason == refusal::outside_asymptotic_range)
+            richardson_problem = detail::judge_by_finer_run(runs, n, p_declared, opt, c, richardson_problem);
         if (!richardson_problem.empty()) return finish(detail::refuse(c, c.reason, richardson_problem));
         if (!(c.error_band <= 1.0))
             return finish(detail::refuse(c, refusal::tolerance_not_met,

@@ -120,7 +120,7 @@ inline std::vector<std::pair<std::string, std::string>> certificate_rows(const s
     rows.emplace_back("estimated error", estimate);
     rows.emplace_back("safety factor", std::isnan(c.safety_factor) ? S("none") : certificate_number(c.safety_factor, "%.3g"));
     S band = certificate_figure(c.error_band, "none");
-    if (!std::isnan(c.error_band)) band += " (safety factor x estimated error)";
+    if (!std::isnan(c.error_band)) band += " (safety factor on Richardson's part; the figure judged against the tolerance)";
     rows.emplace_back("error band", band);
     rows.emplace_back("bound", certificate_figure(c.bound, "none given"));
 

@@ -97,6 +97,13 @@ public:
 
     std::size_t evaluations() const { return evaluations_; }
 
+    /// Step counts of the runs completed so far, ascending.
+    std::vector<std::size_t> completed() const {
+        std::vector<std::size_t> out;
+        for (const auto& [n, run] : runs_) out.push_back(n);
+        return out;
+    }
+
 private:
     template <class F>
     double measure(F&& at_point, std::size_t points) const {
