@@ -26,6 +26,7 @@
 #include "stepcert/methods/explicit_midpoint.hpp"
 #include "stepcert/methods/fehlberg78.hpp"
 #include "stepcert/methods/one_step_method.hpp"
+#include "stepcert/problems/busbar_cooling.hpp"
 #include "stepcert/problems/dahlquist.hpp"
 #include "stepcert/problems/harmonic_oscillator.hpp"
 #include "stepcert/problems/linear_system.hpp"
@@ -320,6 +321,32 @@ TEST(BadInput, MultistepAndAdaptiveMethodsAndBudgets) {
     stepcert::linear_stability_options tight;
     tight.max_method_steps = 3;
     EXPECT_THROW((void)stepcert::check_linear_stability(p, stepcert::classic_rk4, 0.01, one, t0, tight), stepcert::budget_exhausted);
+}
+
+// A method-of-lines system: the busbar's 200-cell second-difference matrix has its largest
+// eigenvalue magnitude 4 (n + 1)^2 cos^2(pi / (2 (n + 1))) (common practice, no source), so RK4's
+// step limit is 2.785293563405281624 over it (shared reference values §6). The Jacobian comes
+// from central differences (the problem gives none). Beyond max_dimension unknowns the dense
+// eigenvalue computation is refused with a typed error instead of running out of memory.
+TEST(StableStepLimit, MethodOfLinesSystemAndTheDimensionLimit) {
+    const std::size_t cells = 200;
+    const double pi = 3.14159265358979323846;  // common practice, no source
+    const double n1 = static_cast<double>(cells + 1);
+    const double largest = 4.0 * n1 * n1 * std::pow(std::cos(pi / (2.0 * n1)), 2);
+    const double limit = 2.785293563405281624 / largest;
+    const auto p = sp::busbar_cooling(cells, 20 * 0.5 * limit);
+    const auto v = stepcert::check_run_stability(p, stepcert::classic_rk4, 0.5 * limit);
+    EXPECT_TRUE(v.stable) << v.basis;
+    ASSERT_TRUE(v.limit_found) << v.basis;
+    EXPECT_NEAR(v.step_limit / limit, 1.0, 1e-6) << v.basis;
+    stepcert::linear_stability_options small;
+    small.max_dimension = 100;
+    try {
+        (void)stepcert::check_run_stability(p, stepcert::classic_rk4, 0.5 * limit, small);
+        ADD_FAILURE() << "a 200-unknown Jacobian passed a limit of 100";
+    } catch (const stepcert::unsupported_operation& e) {
+        EXPECT_THAT(std::string(e.what()), HasSubstr("max_dimension"));
+    }
 }
 
 } // namespace test_stability_check

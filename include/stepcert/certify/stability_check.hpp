@@ -40,6 +40,9 @@ struct linear_stability_options {
     double same_mode = 1e-9;    ///< eigenvalues this close (relative) are measured once
     std::size_t max_method_steps = 1'000'000;  ///< budget of measured steps; beyond it budget_exhausted
     std::size_t samples = 16;   ///< sample states along the run (check_run_stability only)
+    /// Every eigenvalue of a dense n x n Jacobian is computed (O(n^3) time, 8 n^2 bytes): larger
+    /// systems are refused rather than left to run out of memory or time.
+    std::size_t max_dimension = 2000;
 };
 
 /// A decaying mode: an eigenvalue, the time of the first sample it came from, |R(h lambda)|.
@@ -135,6 +138,12 @@ linear_stability_verdict check_linear_stability(const P& p, const M& m, double h
     v.step = h;
     v.samples = states.size();
     const std::size_t n = state_size(p.y0());
+    if (n > opt.max_dimension)
+        throw unsupported_operation(who + "the check computes every eigenvalue of the dense " + std::to_string(n) + " x " +
+                                    std::to_string(n) + " Jacobian, beyond its limit of " + std::to_string(opt.max_dimension) +
+                                    " unknowns (linear_stability_options::max_dimension). Check the step on a coarser "
+                                    "discretization of the same model, or turn the check off (certify_options::"
+                                    "check_stability = false) and give the stability argument yourself.");
     std::vector<stability_mode> modes;  // lambda with Im >= 0: R(conj z) = conj R(z) for real methods
     for (std::size_t k = 0; k < states.size(); ++k) {
         const double t = static_cast<double>(times[k]);

@@ -7,27 +7,12 @@
 #include <cstdio>
 #include <string>
 
+#include "stepcert/report/detail/svg_text.hpp"
 #include "stepcert/tableau/stability_region.hpp"
 
 namespace stepcert {
 
 namespace detail {
-inline std::string svg_escape(const std::string& s) {
-    std::string out;
-    for (char ch : s) {
-        if (ch == '&') out += "&amp;";
-        else if (ch == '<') out += "&lt;";
-        else if (ch == '>') out += "&gt;";
-        else if (ch == '"') out += "&quot;";
-        else out += ch;
-    }
-    return out;
-}
-inline std::string svg_number(double x) {
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%.2f", x);
-    return buf;
-}
 inline std::string tick_label(double x) { return std::to_string(std::lround(x)); }
 inline std::string interval_label(double x) {
     if (std::isinf(x)) return "unbounded";
