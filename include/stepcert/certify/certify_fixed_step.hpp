@@ -163,6 +163,18 @@ inline std::size_t richardson_partner(std::size_t n, const std::vector<std::size
     return best;
 }
 
+/// c judged by its difference d from a finer run with fine_steps whose Richardson estimate, band
+/// and basis are given: the triangle inequality at each output time bounds c's error by d plus the
+/// finer run's error. One wording for certify's coarsening and certify_step_count's re-judging
+/// (tests and check_certificate read "from the run with N steps").
+inline void judge_from_finer_run(step_certificate& c, double d, std::size_t fine_steps, double fine_estimate,
+                                 double fine_band, const std::string& fine_basis) {
+    c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(fine_steps) +
+              " steps plus that run's band " + certificate_number(fine_band) + " (" + fine_basis + ")";
+    c.estimated_error = d + fine_estimate;
+    c.error_band = d + fine_band;
+}
+
 /// A run coarser than the certified one (c.steps, with its Richardson band) meets the tolerance
 /// if its difference from that run plus that band does, by the triangle inequality at each
 /// output time; nothing is assumed about the coarser run's own convergence, so it may lie before
@@ -178,10 +190,7 @@ void coarsen_by_difference(const P& p, const M& m, certify_runs<P, M>& runs, ste
         if (!(d + c.error_band <= opt.target)) continue;
         const stability_record st = stability_of_run(p, m, runs, n, opt, stability_evaluations);
         if (st.checked && !st.stable) continue;
-        c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(fine) +
-                  " steps plus that run's band " + certificate_number(c.error_band) + " (" + c.basis + ")";
-        c.estimated_error = d + c.estimated_error;
-        c.error_band = d + c.error_band;
+        judge_from_finer_run(c, d, fine, c.estimated_error, c.error_band, c.basis);
         c.steps = n;
         c.step = static_cast<double>(p.t1() - p.t0()) / static_cast<double>(n);
         c.stability = st;

@@ -86,10 +86,7 @@ std::string judge_by_finer_run(certify_runs<P, M>& runs, std::size_t n, int p_de
         c.reason = refusal::none;
         c.observed_order = f.observed_order;
         c.safety_factor = opt.safety_factor;
-        c.estimated_error = d + f.estimated_error;
-        c.error_band = d + f.error_band;
-        c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(m) +
-                  " steps plus that run's band " + certificate_number(f.error_band) + " (" + f.basis + ")";
+        judge_from_finer_run(c, d, m, f.estimated_error, f.error_band, f.basis);
         return "";
     }
     c.reason = refusal::outside_asymptotic_range;
