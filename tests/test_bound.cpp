@@ -94,6 +94,16 @@ TEST(MatrixNorms, LogarithmicAndOperatorNormsOfASmallMatrix) {
     EXPECT_NEAR(stepcert::logarithmic_norm(r, stepcert::matrix_norm::two), -4 * rod_rate * std::pow(std::sin(boost::math::constants::pi<double>() / 18), 2), 1e-12);
     EXPECT_EQ(stepcert::logarithmic_norm(r, stepcert::matrix_norm::infinity), 0.0);
     EXPECT_EQ(stepcert::operator_norm(r, stepcert::matrix_norm::infinity), 4 * rod_rate);
+    // Any Eigen matrix of doubles: a fixed-size matrix, a block and an expression give the same norms.
+    Eigen::Matrix2d f;
+    f << -3, 1, 2, -4;
+    Eigen::MatrixXd big = Eigen::MatrixXd::Zero(3, 3);
+    big.topLeftCorner(2, 2) = a;
+    for (const auto kind : {stepcert::matrix_norm::one, stepcert::matrix_norm::two, stepcert::matrix_norm::infinity}) {
+        EXPECT_EQ(stepcert::logarithmic_norm(f, kind), stepcert::logarithmic_norm(a, kind));
+        EXPECT_EQ(stepcert::logarithmic_norm(big.topLeftCorner(2, 2), kind), stepcert::logarithmic_norm(a, kind));
+        EXPECT_EQ(stepcert::operator_norm(2.0 * a, kind), 2.0 * stepcert::operator_norm(a, kind));
+    }
 }
 
 TEST(TransportedBounds, NeverBelowTheTrueErrorAndTheLogNormOneIsFarTighter) {
