@@ -45,6 +45,7 @@ TEST(AcceptanceOrdersAdaptive, CashKarp54Adaptive) {
 // than cpp_bin_float_50, which matters under the sanitizers) they settle
 // towards 8 below tolerance 1e-14 on Kepler (8.28 at 1e-16, 8.04 at 1e-23) and below 1e-12 on the
 // linear system (8.0 at 1e-15), so the ladders start there.
+#if defined(STEPCERT_HAVE_FLOAT128)  // GCC
 TEST(AcceptanceOrdersAdaptive, Fehlberg78AdaptiveInMultiprecision) {
     using R = stepcert::float128;
     stepcert::study_options final_only;
@@ -55,6 +56,7 @@ TEST(AcceptanceOrdersAdaptive, Fehlberg78AdaptiveInMultiprecision) {
         EXPECT_TRUE(r.fit.has_interval()) << stepcert::study_table(r);
     }
 }
+#endif
 
 // Fehlberg 7(8), fixed step, declared order 8 (E. Fehlberg, NASA TR R-287, 1968). In double its
 // asymptotic range is squeezed between pre-asymptotic levels and round-off (fitted 8.5 on Kepler),
@@ -63,6 +65,7 @@ TEST(AcceptanceOrdersAdaptive, Fehlberg78AdaptiveInMultiprecision) {
 // Measured on the whole output grid (t = j/160, not doubles), its local orders settle from 8.38
 // at 3200 steps towards 8 (8.07 at 25600), so the ladder starts at 3200. Grid times are computed
 // in the study's own type, so the finest error, near 3e-24, is not held up by time rounding.
+#if defined(STEPCERT_HAVE_FLOAT128)  // GCC
 TEST(AcceptanceOrdersAdaptive, Fehlberg78InMultiprecision) {
     using R = stepcert::float128;
     const auto kepler = stepcert::order_study<R>(stepcert::problems::kepler<R>(R("0.5"), R(20)), stepcert::fehlberg78, stepcert::step_ladder{3200, 2.0, 4});
@@ -74,3 +77,4 @@ TEST(AcceptanceOrdersAdaptive, Fehlberg78InMultiprecision) {
     // Grid times rounded to double would floor the error near |y'| ulp(t) = 4e-15 (common practice, no source).
     EXPECT_LT(kepler.levels.back().error_grid, 1e-20) << stepcert::study_table(kepler);
 }
+#endif

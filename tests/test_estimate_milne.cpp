@@ -227,7 +227,11 @@ stepcert::effectivity_summary milne_effectivity(const P& p, std::size_t n, const
 
 template <class T>
 class MilneEffectivity : public ::testing::Test {};
+#if defined(STEPCERT_HAVE_FLOAT128)
 using Scalars = ::testing::Types<double, stepcert::float128>;
+#else
+using Scalars = ::testing::Types<double>;  // Clang: no float128
+#endif
 TYPED_TEST_SUITE(MilneEffectivity, Scalars);
 
 TYPED_TEST(MilneEffectivity, NearOneInTheAsymptoticRange) {

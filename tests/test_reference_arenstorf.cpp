@@ -3,8 +3,7 @@
 // Ordinary Differential Equations I, 2nd ed., Springer 1993, §II.0). The published constants
 // close the orbit only to about 4.6e-27 (max norm; derived, reference-values §1); our
 // recomputed constants (derived, 100-digit MPFR shooting) close it to about 1e-40.
-// This program links libquadmath (stepcert_dev): float128 may be used.
-#define STEPCERT_HAVE_FLOAT128 1
+// float128 parts run where the build has it (GCC: stepcert_dev links stepcert::float128).
 #include <algorithm>
 #include <array>
 #include <cmath>

@@ -1,8 +1,7 @@
 // The odeint fix (reference/odeint_multiprecision.hpp) for float128 (GCC, GNU mode, libquadmath)
 // and MPFR (when STEPCERT_HAVE_MPFR is defined; Boost's mpfr_float_50 with expression templates
 // and stepcert's without): the same checks as for cpp_bin_float.
-// This program links libquadmath (stepcert_dev): float128 may be used.
-#define STEPCERT_HAVE_FLOAT128 1
+// float128 parts run where the build has it (GCC: stepcert_dev links stepcert::float128).
 #include "test_reference_odeint_fix.hpp"
 
 namespace {

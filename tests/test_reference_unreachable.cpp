@@ -2,8 +2,7 @@
 // what the type carries (before any work), when the budget runs out, and when the runs cannot
 // agree to the digits asked; invalid_input and non_finite_value for bad arguments. Also the
 // agreement measure behind vouched_digits, on hand-made values.
-// This program links libquadmath (stepcert_dev): float128 may be used.
-#define STEPCERT_HAVE_FLOAT128 1
+// float128 parts run where the build has it (GCC: stepcert_dev links stepcert::float128).
 #include <array>
 #include <cmath>
 #include <cstddef>

@@ -356,7 +356,7 @@ private:
     std::shared_ptr<const P> problem_;
     sweep_options options_;
     std::vector<job> jobs_;
-    std::optional<detail::sweep_truth<truth_state>> truth_;
+    std::optional<detail::grid_truth<truth_state>> truth_;
 };
 
 } // namespace stepcert
