@@ -28,13 +28,22 @@
 #include "stepcert/certify/certify_step_count.hpp"
 #include "stepcert/certify/check_certificate.hpp"
 #include "stepcert/core/problem.hpp"
+#include "stepcert/methods/adams_bashforth_moulton.hpp"
+#include "stepcert/methods/adaptive_tableau_method.hpp"
+#include "stepcert/methods/bulirsch_stoer.hpp"
+#include "stepcert/methods/cash_karp54.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
+#include "stepcert/methods/explicit_euler.hpp"
+#include "stepcert/methods/explicit_midpoint.hpp"
+#include "stepcert/methods/fehlberg78.hpp"
 #include "stepcert/methods/odeint_types.hpp"
+#include "stepcert/methods/tableau_method.hpp"
 #include "stepcert/reference/multiprecision_types.hpp"
 #include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/study/order_study.hpp"
+#include "stepcert/tableau/catalogue.hpp"
 
 namespace test_core_state_types {
 
@@ -141,6 +150,33 @@ const stepcert::step_certificate& vector_certificate() {
 template <class S>
 class StateTypeCertify : public ::testing::Test {};
 
+/// The state types odeint must resize its scratch states for (run-time size, not std::vector).
+template <class S>
+class RuntimeSizeStateSteps : public ::testing::Test {};
+
+using RuntimeSizeStates = ::testing::Types<Eigen::VectorXd, boost::numeric::ublas::vector<double>>;
+
+/// The final state and cost of a fixed-step run of m on S match those on std::vector<double>.
+template <class S, class M>
+void expect_fixed_step_match(const M& m, std::size_t n) {
+    const auto run = stepcert::run_uniform(chain<S>(), m, n, n / grid);
+    const auto run_v = stepcert::run_uniform(chain<std::vector<double>>(), m, n, n / grid);
+    EXPECT_EQ(run.stats.evaluations, run_v.stats.evaluations) << m.name();
+    EXPECT_LE(largest_difference(run.final_state(), run_v.final_state()), round_off<double>()) << m.name();
+}
+
+/// The same for an adaptive run, with its accepted and rejected steps.
+template <class S, class M>
+void expect_adaptive_match(const M& m) {
+    const stepcert::controller_tolerance ctol{1e-8, 1e-8};
+    const auto run = stepcert::run_adaptive(chain<S>(), m, ctol);
+    const auto run_v = stepcert::run_adaptive(chain<std::vector<double>>(), m, ctol);
+    EXPECT_EQ(run.stats.steps, run_v.stats.steps) << m.name();
+    EXPECT_EQ(run.stats.rejected, run_v.stats.rejected) << m.name();
+    EXPECT_EQ(run.stats.evaluations, run_v.stats.evaluations) << m.name();
+    EXPECT_LE(largest_difference(run.final_state(), run_v.final_state()), round_off<double>()) << m.name();
+}
+
 using StateTypes = ::testing::Types<std::vector<double>, std::array<double, 4>, Eigen::VectorXd, Eigen::Matrix<double, 4, 1>,
                                     boost::numeric::ublas::vector<double>>;
 
@@ -160,6 +196,7 @@ struct state_type_names {
 using namespace test_core_state_types;
 
 TYPED_TEST_SUITE(StateTypeCertify, StateTypes, state_type_names);
+TYPED_TEST_SUITE(RuntimeSizeStateSteps, RuntimeSizeStates, state_type_names);
 
 TEST(StateTypeChain, ExactSolutionSatisfiesTheEquation) {
     // Central difference of the exact solution in 50 digits (truncation ~ delta^2 |y'''| ~ 1e-24)
@@ -349,4 +386,25 @@ TYPED_TEST(StateTypeCertify, OrderStudyObservesTheSameOrder) {
     ASSERT_EQ(study.levels.size(), study_v.levels.size());
     for (std::size_t i = 0; i < study.levels.size(); ++i)
         EXPECT_NEAR(study.levels[i].error_grid, study_v.levels[i].error_grid, 1e-12 * study_v.levels[i].error_grid);
+}
+
+TYPED_TEST(RuntimeSizeStateSteps, EveryMethodStepsLikeStdVector) {
+    // Each wrapper keeps scratch states of its own (stages, Adams history, extrapolation table,
+    // tableau stages); sized wrongly they would be written out of bounds, which the sanitizer
+    // pass would catch. Same numbers as std::vector<double>, and the same cost.
+    using S = TypeParam;
+    namespace tb = stepcert::tableaus;
+    expect_fixed_step_match<S>(stepcert::explicit_euler, 800);
+    expect_fixed_step_match<S>(stepcert::explicit_midpoint, 160);
+    expect_fixed_step_match<S>(stepcert::classic_rk4, 64);
+    expect_fixed_step_match<S>(stepcert::dormand_prince54, 64);
+    expect_fixed_step_match<S>(stepcert::cash_karp54, 64);
+    expect_fixed_step_match<S>(stepcert::fehlberg78, 32);
+    expect_fixed_step_match<S>(stepcert::adams_bashforth_moulton<4>, 160);
+    expect_fixed_step_match<S>(stepcert::tableau_method(tb::classic_rk4<double>()), 64);
+    expect_adaptive_match<S>(stepcert::dormand_prince54_adaptive);
+    expect_adaptive_match<S>(stepcert::cash_karp54_adaptive);
+    expect_adaptive_match<S>(stepcert::fehlberg78_adaptive);
+    expect_adaptive_match<S>(stepcert::bulirsch_stoer_adaptive);
+    expect_adaptive_match<S>(stepcert::adaptive_tableau_method(tb::bogacki_shampine32<double>()));
 }
