@@ -146,14 +146,34 @@ private:
     std::vector<scalar_type> breakpoints_;
 };
 
+namespace detail {
+/// The time type make_problem takes: the state's scalar, or double while the state type is
+/// refused (so that the refusal is the one message, not a failed deduction).
+template <class State>
+struct make_problem_time {
+    using type = double;
+};
+template <state State>
+struct make_problem_time<State> {
+    using type = scalar_of<State>;
+};
+} // namespace detail
+
 /// Builds a problem; the right-hand side is rhs(const State& y, State& dydt, Scalar t).
-template <class Rhs, state State>
-auto make_problem(std::string name, Rhs rhs, State y0, scalar_of<State> t0, scalar_of<State> t1) {
-    static_assert(rhs_for<Rhs, State>,
-                  "stepcert::make_problem: the right-hand side must be callable as rhs(const State& y, "
-                  "State& dydt, Scalar t) with the state type of y0 (write it generic, e.g. "
-                  "[](const auto& y, auto& dydt, auto t){...}, to allow multiprecision references).");
-    return problem<State, Rhs>(std::move(name), std::move(rhs), std::move(y0), t0, t1);
+/// State is any stepcert::state (core/state.hpp; Eigen vectors with core/state_eigen.hpp,
+/// uBLAS vectors with core/state_ublas.hpp); any other type stops here with one message.
+template <class Rhs, class State>
+auto make_problem(std::string name, Rhs rhs, State y0, typename detail::make_problem_time<State>::type t0,
+                  typename detail::make_problem_time<State>::type t1) {
+    if constexpr (!detail::require_state<State>()) {
+        return none_given{};  // not reached at run time: require_state failed the compilation
+    } else {
+        static_assert(rhs_for<Rhs, State>,
+                      "stepcert::make_problem: the right-hand side must be callable as rhs(const State& y, "
+                      "State& dydt, Scalar t) with the state type of y0 (write it generic, e.g. "
+                      "[](const auto& y, auto& dydt, auto t){...}, to allow multiprecision references).");
+        return problem<State, Rhs>(std::move(name), std::move(rhs), std::move(y0), t0, t1);
+    }
 }
 
 /// Accepts brace lists: make_problem("x", rhs, {1.0, 0.0}, 0.0, 1.0) gives a std::vector<double> state.
