@@ -6,6 +6,7 @@
 #include <array>
 #include <cmath>
 #include <cstddef>
+#include <cstdio>
 #include <limits>
 #include <string>
 #include <type_traits>
@@ -217,6 +218,8 @@ TEST(HardModels, NaNFromTheModelIsNamedWithItsTimeAndComponent) {
         EXPECT_GT(e.site()->time, 0.7);
         EXPECT_LE(e.site()->time, 0.7 + 1.0 / 64);
     }
+    std::printf("thruster table: refused '%s' after %zu evaluations: %s\n", std::string(stepcert::to_string(c.reason)).c_str(),
+                c.evaluations, c.reason_detail.c_str());
     EXPECT_LT(c.evaluations, 2'000u);
 }
 
@@ -230,6 +233,8 @@ TEST(HardModels, NaNOnlyInTheReferenceIsRefusedAsNonFinite) {
     EXPECT_EQ(c.reason, refusal::non_finite) << c.reason_detail;
     EXPECT_TRUE(says(c.reason_detail, "multiprecision reference")) << c.reason_detail;
     EXPECT_TRUE(says(c.reason_detail, "component 1 at t = 0.5")) << c.reason_detail;
+    std::printf("multiprecision-only NaN: refused '%s' after %zu + %zu evaluations\n", std::string(stepcert::to_string(c.reason)).c_str(),
+                c.evaluations, c.reference_evaluations);
     // Without the reference the double runs certify: the failure is the reference's alone.
     stepcert::certify_options opt;
     opt.verify_with_reference = false;
@@ -308,6 +313,8 @@ TEST(HardModels, JumpIsLocatedWithoutBreakpointsAndCertifiedWithThem) {
     EXPECT_LT(b - a, 0.01) << refused.reason_detail;
     EXPECT_NEAR(refused.observed_order, 1.0, 0.1);  // a jump in f: first order (common practice, no source)
     EXPECT_LT(refused.evaluations, 100'000u);
+    std::printf("switched heater, RK4, 1e-7: refused '%s', order %.3f, interval [%.6g, %.6g], %zu evaluations\n",
+                std::string(stepcert::to_string(refused.reason)).c_str(), refused.observed_order, a, b, refused.evaluations);
 
     const auto with_break = p.with_breakpoints({switch_time});
     const auto c = stepcert::certify(with_break, stepcert::classic_rk4, tol);
@@ -322,6 +329,8 @@ TEST(HardModels, JumpIsLocatedWithoutBreakpointsAndCertifiedWithThem) {
     const auto e = stepcert::certify(with_break, stepcert::classic_rk4, tol, est);
     ASSERT_TRUE(e.issued()) << e.reason_detail;
     EXPECT_NEAR(e.observed_order, 4.0, 0.35) << e.basis;
+    std::printf("  with the breakpoint: %s N = %zu (reference error %.3g), estimated N = %zu, order %.3f\n",
+                std::string(stepcert::to_string(c.level)).c_str(), c.steps, c.reference_error, e.steps, e.observed_order);
     // Direct measurement: the run at the certified step (landing on 1/3) against the exact solution.
     const auto run = stepcert::run_uniform(with_break, stepcert::classic_rk4, e.steps, e.steps / 8);
     double worst = 0.0;
@@ -348,6 +357,8 @@ TEST(HardModels, KinkIsLocatedWithoutBreakpointsAndCertifiedWithThem) {
     EXPECT_NEAR(refused.observed_order, 2.0, 0.2) << refused.reason_detail;  // a kink in f: second order (derived)
     const auto c = stepcert::certify(p.with_breakpoints({kink_time}), stepcert::classic_rk4, tol);
     ASSERT_TRUE(c.issued()) << stepcert::to_string(c.reason) << ": " << c.reason_detail;
+    std::printf("kinked valve, RK4, 1e-9: refused '%s', order %.3f, interval [%.6g, %.6g]; with the breakpoint N = %zu\n",
+                std::string(stepcert::to_string(refused.reason)).c_str(), refused.observed_order, a, b, c.steps);
     EXPECT_LE(c.reference_error, 1.0);
 }
 
@@ -363,6 +374,8 @@ TEST(HardModels, FiniteTimeBlowUpIsUnboundedGrowth) {
         EXPECT_EQ(c.reason, refusal::unbounded_growth) << t1 << ": " << c.reason_detail;
         EXPECT_TRUE(says(c.reason_detail, "t = 1")) << c.reason_detail;
         EXPECT_LT(c.evaluations, 20'000u) << t1;
+        std::printf("blow-up on [0, %g]: refused '%s' after %zu evaluations\n", t1, std::string(stepcert::to_string(c.reason)).c_str(),
+                    c.evaluations);
     }
 }
 
@@ -394,6 +407,8 @@ TEST(HardModels, ComponentAtRestWithARelativeTolerance) {
     EXPECT_EQ(r.reason, refusal::relative_tolerance_at_zero) << stepcert::to_string(r.reason) << ": " << r.reason_detail;
     EXPECT_TRUE(says(r.reason_detail, "component 1")) << r.reason_detail;
     EXPECT_LT(r.evaluations, 100'000u);
+    std::printf("heat balance residual, rtol only: refused '%s' after %zu evaluations\n", std::string(stepcert::to_string(r.reason)).c_str(),
+                r.evaluations);
     // Direct measurement: the residual's run value is no larger than its difference from a finer run.
     const auto coarse = stepcert::run_uniform(q, stepcert::classic_rk4, 64), fine = stepcert::run_uniform(q, stepcert::classic_rk4, 128);
     EXPECT_GE(std::abs(coarse.final_state()[1] - fine.final_state()[1]), 0.5 * std::abs(fine.final_state()[1]));
@@ -462,4 +477,6 @@ TEST(HardModels, OrderThatNeverSettlesIsSaidSo) {
     EXPECT_EQ(c.reason, refusal::order_not_settled) << stepcert::to_string(c.reason) << ": " << c.reason_detail;
     EXPECT_TRUE(says(c.reason_detail, "steps")) << c.reason_detail;
     EXPECT_LT(c.evaluations, 2'000'000u);
+    std::printf("single-precision step bug: refused '%s' after %zu evaluations: %s\n", std::string(stepcert::to_string(c.reason)).c_str(),
+                c.evaluations, c.reason_detail.c_str());
 }

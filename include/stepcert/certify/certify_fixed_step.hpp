@@ -147,6 +147,40 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                                          " .. " + std::to_string(L.level.back()) + " steps (" + std::to_string(spent()) +
                                          " evaluations); observed orders: " + L.readings_text() + "."));
     };
+    // Readings settled below the declared order: where is the error made?
+    std::optional<detail::non_smooth_finding> located;
+    std::size_t located_at = 0;
+    auto locate = [&] {
+        located = detail::locate_non_smooth(p, m, L.level.back(), G, tol,
+                                            opt.max_evaluations - std::min(opt.max_evaluations, spent()));
+        located_at = L.level.size();
+        stability_evaluations += located->evaluations;
+    };
+    auto refuse_low_order = [&](const detail::non_smooth_finding& where) {
+        const std::string seen =
+            "the observed order settled at " + L.readings_text(3) + ", below the declared " + std::to_string(p_declared);
+        if (!where.windows.empty())
+            return detail::refuse(
+                c, refusal::non_smooth,
+                seen + ". The error is made in " + detail::windows_text(where) + ": the right-hand side is likely not smooth there (" +
+                    (std::isfinite(where.smooth_ratio)
+                         ? "elsewhere a step makes " + detail::formatted_number(where.smooth_ratio, "%.3g") +
+                               " times the local error of the two half steps covering it, about 2^" + std::to_string(p_declared) +
+                               " as on a smooth model; there much less, as across a jump or a kink"
+                         : "a step there makes only that ratio times the local error of the two half steps covering it, "
+                           "where a smooth model gives 2^" + std::to_string(p_declared) +
+                               "; elsewhere the local error is below a thousandth of it") +
+                    "). If the model switches at a known time there, declare it (problem.with_breakpoints({t})): runs then "
+                    "land on it and step each side on its own; otherwise smooth the model there.");
+        return detail::refuse(c, refusal::order_below_declared,
+                              seen + ", and no window of the run stands out where the local error fails to shrink as h^(p+1) (" +
+                                  (where.note.empty() ? "median local error ratio " +
+                                                            detail::formatted_number(where.smooth_ratio, "%.3g") + " of 2^" +
+                                                            std::to_string(p_declared)
+                                                      : where.note) +
+                                  "): the order is low everywhere. Check the method's declared order, and whether the "
+                                  "right-hand side is smooth in the state (an absolute value, a min or max, a table lookup).");
+    };
     try {
         std::size_t n = n0;
         for (std::size_t k = 0; k < opt.max_levels; ++k) {
@@ -214,8 +248,11 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                     break;
                 }
                 // Stalled above rounding: four halvings of the step cut the difference by less
-                // than half (an order below 0.25): more steps buy nothing.
-                if (k >= 5 && std::isfinite(L.diff[k - 4]) && d >= L.diff[k - 4] / 2) {
+                // than half (an order below 0.25) though the runs already agree to 1e-3 of the
+                // solution's size (a coarse start that has not converged yet differs by about all
+                // of it): more steps buy nothing.
+                if (k >= 5 && std::isfinite(L.diff[k - 4]) && d >= L.diff[k - 4] / 2 &&
+                    runs.relative_difference(L.level[k - 1], n) <= 1e-3) {
                     stalled = true;
                     break;
                 }
@@ -225,6 +262,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                                                        length / static_cast<double>(L.level[k - 1]),
                                                        length / static_cast<double>(n), L.diff[k - 1], d);
                     L.reading[k] = q;
+                    c.observed_order = q;  // the latest reading, until the search settles on one
                     const bool confirmed = std::abs(q - p_declared) <= opt.order_tolerance;
                     const bool above = detail::steady_above(L.reading[k - 1], q, p_declared, opt.order_tolerance);
                     if (confirmed || above) {
@@ -242,12 +280,17 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                             break;
                         }
                     } else if (const auto last = L.last_three_readings()) {
-                        // Settled below: three readings under the declared order, within the
-                        // tolerance of each other. More steps will not bring the order back.
+                        // Three readings under the declared order: look where the error is made.
+                        // A window that stands out ends the search (not smooth there). Without
+                        // one, steady readings (within 0.25, no upward trend) mean the order is
+                        // low everywhere; readings still rising may be a slow approach, and the
+                        // search goes on (looking again two levels later).
                         const auto [lo, hi] = std::minmax({(*last)[0], (*last)[1], (*last)[2]});
-                        if (hi < p_declared - opt.order_tolerance && hi - lo <= 2 * opt.order_tolerance) {
-                            low_order = true;
-                            break;
+                        low_order = hi < p_declared - opt.order_tolerance;
+                        if (low_order && (!located || L.level.size() >= located_at + 2)) {
+                            locate();
+                            const bool steady = hi - lo <= 0.25 && (*last)[2] - (*last)[0] <= 0.15;
+                            if (!located->windows.empty() || steady) return finish(refuse_low_order(*located));
                         }
                     }
                 }
@@ -279,7 +322,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             n_star = std::min(n_star, L.level[k]);  // finer runs would only meet rounding
         }
     }
-    c.observed_order = std::isfinite(p_seen) ? p_seen : (L.reading.empty() ? p_seen : L.reading.back());
+    if (std::isfinite(p_seen)) c.observed_order = p_seen;
 
     detail::truth_once<P> truths(p, G, tol);
     if (!consistent_at) {
@@ -361,35 +404,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             }
             return finish(c);
         }
-        if (low_order) {
-            const std::size_t finest = L.level.back();
-            const std::size_t budget = opt.max_evaluations - std::min(opt.max_evaluations, spent());
-            auto where = detail::locate_non_smooth(p, m, finest, G, tol, budget);
-            stability_evaluations += where.evaluations;
-            const std::string seen = "the observed order settled at " + L.readings_text(3) + ", below the declared " +
-                                     std::to_string(p_declared);
-            if (!where.windows.empty())
-                return finish(detail::refuse(
-                    c, refusal::non_smooth,
-                    seen + ". The error is made in " + detail::windows_text(where) + ": the right-hand side is likely not "
-                    "smooth there (" + (std::isfinite(where.smooth_ratio)
-                        ? "elsewhere a step makes " + detail::formatted_number(where.smooth_ratio, "%.3g") +
-                              " times the local error of the two half steps covering it, about 2^" + std::to_string(p_declared) +
-                              " as on a smooth model; there much less, as across a jump or a kink"
-                        : "a step there makes only that ratio times the local error of the two half steps covering "
-                          "it, where a smooth model gives 2^" + std::to_string(p_declared) + "; elsewhere the local error "
-                          "is below a thousandth of it") +
-                    "). If the model switches at a known "
-                    "time there, declare it (problem.with_breakpoints({t})): runs then land on it and step each side on its "
-                    "own; otherwise smooth the model there."));
-            return finish(detail::refuse(c, refusal::order_below_declared,
-                                         seen + ", and no window of the run stands out where the local error fails to shrink as "
-                                         "h^(p+1) (" + (where.note.empty() ? "median local error ratio " +
-                                         detail::formatted_number(where.smooth_ratio, "%.3g") + " of 2^" + std::to_string(p_declared)
-                                         : where.note) + "): the order is low everywhere. Check the method's declared "
-                                         "order, and whether the right-hand side is smooth in the state (an absolute value, a "
-                                         "min or max, a table lookup)."));
-        }
+        if (low_order && located) return finish(refuse_low_order(*located));
         bool any_finite = false;
         for (double d : L.diff) any_finite = any_finite || std::isfinite(d);
         if (!any_finite && !L.failed.empty()) {

@@ -98,6 +98,19 @@ public:
         return out;
     }
 
+    /// Largest |y_a - y_b| over the output grid, relative to the largest |y_b| there.
+    double relative_difference(std::size_t a, std::size_t b) {
+        const auto& ra = at(a);
+        const auto& rb = at(b);
+        double d = 0.0, scale = 0.0;
+        for (std::size_t j = 0; j < ra.states.size(); ++j)
+            for (std::size_t i = 0; i < state_size(ra.states[j]); ++i) {
+                d = std::max(d, std::abs(ra.states[j][i] - rb.states[j][i]));
+                scale = std::max(scale, std::abs(rb.states[j][i]));
+            }
+        return scale > 0.0 ? d / scale : d;
+    }
+
     /// Where a purely relative tolerance (atol = 0) cannot judge the run with a steps against
     /// `scale_at(j)` (another run's states, or the truth's) at output j: a component whose value
     /// there is no larger than its difference (|y_a - y_s| >= |y_s| / 2: zero, or zero up to the
