@@ -79,9 +79,10 @@ struct linear_stability_options {
     std::size_t max_dimension = 2000;
     eigenvalue_path eigenvalues = eigenvalue_path::automatic;
     /// automatic: dense at or below this many unknowns. Measured (bench/bench_stability_large.cpp,
-    /// busbar): the dense check costs about 40 ms per sample at 200 unknowns and 0.2 s at 400
-    /// (n^3), and a certification checks 20 to 50 samples; the matrix-free estimate stays under a
-    /// millisecond there, but sees only the extreme eigenvalues, so small systems keep every one.
+    /// busbar, one run): the dense check costs 12 ms per sample at 200 unknowns, 97 ms at 400 and
+    /// 0.8 s at 800 (n^3), and a certification checks 20 to 50 samples; the matrix-free estimate
+    /// takes about 0.6 ms at all these sizes, but sees only the extreme eigenvalues, so small
+    /// systems keep every one.
     std::size_t dense_up_to = 200;
     /// Matrix-free estimate (budget of products per sample, tolerance, error radii).
     extreme_eigenvalue_options extreme{};
