@@ -81,6 +81,13 @@ struct decays_exact {
         for (std::size_t i = 0; i < y.size(); ++i) y[i] = exp(-k.template operator()<U>(i) * static_cast<U>(t));
     }
 };
+struct decays_jacobian {
+    template <class S, class T, class M>
+    void operator()(const S& y, T, M& J) const {
+        const decay_rate k{y.size()};
+        for (std::size_t i = 0; i < y.size(); ++i) J(static_cast<long>(i), static_cast<long>(i)) = -k.template operator()<double>(i);
+    }
+};
 auto decoupled_decays(std::size_t n, double t1) {
     return stepcert::make_problem("decoupled decays(n=" + std::to_string(n) + ")", decays_rhs{}, std::vector<double>(n, 1.0), 0.0, t1)
         .with_exact(decays_exact{});
@@ -204,6 +211,20 @@ TEST(MatrixFreeStability, FiveThousandDecoupledDecaysGetACertificate) {
     EXPECT_TRUE(c.stability.checked);
     EXPECT_TRUE(c.stability.stable) << c.stability.worst_mode;
     EXPECT_LE(c.step, rk4_beta / 100.0) << c.basis;
+}
+
+// On a small system with its own Jacobian the matrix-free path multiplies by it exactly (no
+// right-hand-side evaluation); the limit is the same as the dense path's to the radius.
+TEST(MatrixFreeStability, SmallSystemWithItsOwnJacobianUsesExactProducts) {
+    const auto p = decoupled_decays(150, 1.0).with_jacobian(decays_jacobian{});
+    const auto dense = at_start(p, stepcert::classic_rk4, 0.01, on(stepcert::eigenvalue_path::dense));
+    const auto free = at_start(p, stepcert::classic_rk4, 0.01, on(stepcert::eigenvalue_path::matrix_free));
+    EXPECT_EQ(free.rhs_evaluations, 0U) << free.basis;
+    EXPECT_GT(free.jacobian_products, 0U);
+    EXPECT_THAT(free.basis, HasSubstr("problem's own Jacobian"));
+    EXPECT_NEAR(dense.step_limit / (rk4_beta / 100.0), 1.0, 1e-9) << dense.basis;
+    EXPECT_NEAR(free.step_limit / dense.step_limit, 1.0, 0.01) << free.basis;
+    EXPECT_LE(free.step_limit, dense.step_limit * (1.0 + 1e-12)) << free.basis;
 }
 
 // Just above and just below RK4's real limit on a 20,000-cell busbar (only the matrix-free path

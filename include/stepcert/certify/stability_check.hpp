@@ -236,10 +236,11 @@ linear_stability_verdict check_linear_stability(const P& p, const M& m, double h
             }
             continue;
         }
-        // Matrix-free: exact products with the problem's own Jacobian where it is small enough to
-        // form, forward differences otherwise (no n x n matrix).
-        const auto source = P::has_jacobian && n <= opt.max_dimension ? jacobian_product_source::problem_jacobian
-                                                                       : jacobian_product_source::forward_difference;
+        // Matrix-free: exact products with the problem's own Jacobian on a small system (at most
+        // dense_up_to unknowns, where the dense path would have formed it anyway), forward
+        // differences otherwise: no n x n matrix beyond dense_up_to.
+        const auto source = P::has_jacobian && n <= opt.dense_up_to ? jacobian_product_source::problem_jacobian
+                                                                     : jacobian_product_source::forward_difference;
         jacobian_product<P> op(p, states[k], t, opt.extreme.max_products, source);
         const extreme_eigenvalue_estimate est = estimate_extreme_eigenvalues(op, opt.extreme);
         v.rhs_evaluations += op.evaluations();
