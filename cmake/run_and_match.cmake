@@ -1,9 +1,13 @@
-# Runs one command and checks what it did; used by the stepcert_cli tests (examples/CMakeLists.txt).
-#   cmake -DEXPECT_EXIT=<code> [-DEXPECT_STDOUT=<regex>] [-DEXPECT_STDERR=<regex>] [-DSTDERR_ONE_LINE=ON]
+# Runs one command and checks what it did; used by the example and stepcert_cli tests
+# (examples/CMakeLists.txt).
+#   cmake -DEXPECT_EXIT=<code> [-DEXPECT_STDOUT=<regex>] [-DEXPECT_STDOUT_1=<regex> ...]
+#         [-DEXPECT_STDERR=<regex>] [-DSTDERR_ONE_LINE=ON]
 #         [-DCHECK_FILE=<path> -DFILE_REGEX=<regex>] -P run_and_match.cmake -- <program> [args...]
-# Fails (and says why, showing the output) unless the exit code is EXPECT_EXIT, stdout and stderr
-# match their regexes, stderr is one line when STDERR_ONE_LINE is set, and CHECK_FILE (written by
-# the command) exists and matches FILE_REGEX. Regexes are CMake regexes; avoid ';' in them.
+# Fails (and says why, showing the output) unless the exit code is exactly EXPECT_EXIT, stdout
+# matches EXPECT_STDOUT and each of EXPECT_STDOUT_1, EXPECT_STDOUT_2, ... (numbered from 1 without
+# gaps: one printed figure each, so a failure names the figure), stderr matches its regex, stderr is
+# one line when STDERR_ONE_LINE is set, and CHECK_FILE (written by the command) exists and matches
+# FILE_REGEX. Regexes are CMake regexes (no {n} repeats); avoid ';' in them.
 set(command "")
 set(after_marker OFF)
 math(EXPR last "${CMAKE_ARGC} - 1")
@@ -33,6 +37,13 @@ endif()
 if(DEFINED EXPECT_STDOUT AND NOT out MATCHES "${EXPECT_STDOUT}")
     string(APPEND failures "stdout does not match '${EXPECT_STDOUT}'\n")
 endif()
+set(k 1)
+while(DEFINED EXPECT_STDOUT_${k})
+    if(NOT out MATCHES "${EXPECT_STDOUT_${k}}")
+        string(APPEND failures "stdout does not match '${EXPECT_STDOUT_${k}}'\n")
+    endif()
+    math(EXPR k "${k} + 1")
+endwhile()
 if(DEFINED EXPECT_STDERR AND NOT err MATCHES "${EXPECT_STDERR}")
     string(APPEND failures "stderr does not match '${EXPECT_STDERR}'\n")
 endif()

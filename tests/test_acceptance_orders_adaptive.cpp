@@ -8,7 +8,9 @@
 #include "stepcert/stepcert.hpp"
 #include "stepcert/testing/gtest.hpp"
 
-namespace {
+// Helpers and tests in a namespace of this file: the acceptance files are compiled as one unity
+// batch, where helpers of the same name in anonymous namespaces would silently overload each other.
+namespace test_acceptance_orders_adaptive {
 using stepcert::tolerance_ladder;
 using stepcert::testing::converges_at_declared_order;
 
@@ -18,7 +20,6 @@ void expect_declared_order(const P& p, const M& m, tolerance_ladder ladder, doub
     EXPECT_TRUE(converges_at_declared_order(r, tolerance));
     EXPECT_TRUE(r.fit.has_interval()) << stepcert::study_table(r);
 }
-} // namespace
 
 TEST(AcceptanceOrdersAdaptive, DormandPrince54Adaptive) {
     expect_declared_order(stepcert::problems::kepler(0.5, 20.0), stepcert::dormand_prince54_adaptive, {1e-5, 10.0, 6}, 0.3);
@@ -78,3 +79,5 @@ TEST(AcceptanceOrdersAdaptive, Fehlberg78InMultiprecision) {
     EXPECT_LT(kepler.levels.back().error_grid, 1e-20) << stepcert::study_table(kepler);
 }
 #endif
+
+} // namespace test_acceptance_orders_adaptive

@@ -7,12 +7,17 @@
 //    checked against Eigen's matrix exponential in test_problems_linear).
 // Declared orders are the methods' published design orders (Euler 1, midpoint 2, Kutta's RK4 4,
 // Adams–Bashforth–Moulton k-step k, Cash–Karp 1990 5, Dormand–Prince 1980 5; Fehlberg 7(8) is in test_acceptance_orders_adaptive.cpp).
+#include <cstdio>
+#include <string>
+
 #include <gtest/gtest.h>
 
 #include "stepcert/stepcert.hpp"
 #include "stepcert/testing/gtest.hpp"
 
-namespace {
+// Helpers and tests in a namespace of this file: the acceptance files are compiled as one unity
+// batch, where helpers of the same name in anonymous namespaces would silently overload each other.
+namespace test_acceptance_orders_fixed {
 using stepcert::step_ladder;
 using stepcert::testing::converges_at_declared_order;
 
@@ -24,11 +29,17 @@ void expect_declared_order(const P& p, const M& m, step_ladder ladder) {
     const auto r = stepcert::order_study(p, m, ladder);
     EXPECT_TRUE(converges_at_declared_order(r, 0.2));
     EXPECT_TRUE(r.fit.has_interval()) << stepcert::study_table(r);
-    EXPECT_LE(r.fit.lower, r.fit.order);
-    EXPECT_GE(r.fit.upper, r.fit.order);
+    // Orders are whole numbers: the whole 95% interval must round to the declared order, so the
+    // study tells it from the orders next to it (derived). Measured widths 0.006 .. 0.23; with
+    // three fitted points (one degree of freedom, Student's t 12.7) ABM4 on Kepler gave
+    // [3.57, 4.20], so its ladder has eight levels (five points, [3.88, 3.99]).
+    const double declared = static_cast<double>(m.order());
+    EXPECT_GT(r.fit.lower, declared - 0.5) << stepcert::study_table(r);
+    EXPECT_LT(r.fit.upper, declared + 0.5) << stepcert::study_table(r);
+    std::printf("[ figures ] %s on %s: fitted %.3f, 95%% CI [%.3f, %.3f] over %zu levels\n", std::string(m.name()).c_str(),
+                p.name().c_str(), r.fit.order, r.fit.lower, r.fit.upper, r.fit.points);
     EXPECT_EQ(r.basis, stepcert::error_basis::exact_solution);
 }
-} // namespace
 
 TEST(AcceptanceOrders, ExplicitEuler) {
     // Kepler on [0, 2]: over 20 time units Euler has no correct digit before 10^5 steps.
@@ -44,7 +55,7 @@ TEST(AcceptanceOrders, ClassicRk4) {
     expect_declared_order(linear, stepcert::classic_rk4, {16, 2.0, 7});
 }
 TEST(AcceptanceOrders, AdamsBashforthMoulton4) {
-    expect_declared_order(kepler, stepcert::adams_bashforth_moulton<4>, {400, 2.0, 6});
+    expect_declared_order(kepler, stepcert::adams_bashforth_moulton<4>, {400, 2.0, 8});
     expect_declared_order(linear, stepcert::adams_bashforth_moulton<4>, {32, 2.0, 7});
 }
 TEST(AcceptanceOrders, CashKarp54) {
@@ -60,3 +71,5 @@ TEST(AcceptanceOrders, SymplecticRkn) {
     expect_declared_order(kepler, stepcert::symplectic_rkn, {200, 2.0, 6});
     expect_declared_order(stepcert::problems::harmonic_oscillator(1.0, 10.0), stepcert::symplectic_rkn, {16, 2.0, 7});
 }
+
+} // namespace test_acceptance_orders_fixed

@@ -57,7 +57,12 @@ TEST(CertifyAdaptive, ControllerToleranceMeetsTheTargetAgainstTheExactSolution) 
                 EXPECT_TRUE(std::isnan(c->step));
                 EXPECT_FALSE(c->stability.checked);
                 EXPECT_GT(c->controller_atol, 0.0);
-                EXPECT_GT(c->observed_order, 0.3);  // the proportionality exponent
+                // The proportionality exponent q (error ~ tol^q). Both pairs control the local error
+                // estimate of their fourth-order weights per step, C h^5 ~ tol, so h ~ tol^(1/5), and
+                // propagate the fifth-order solution, whose global error ~ h^5 ~ tol: q = 1 (derived;
+                // tolerance proportionality, Hairer, Nørsett, Wanner I, §II.4 — from memory).
+                // Measured 0.988 .. 1.077 (Kepler DP5 1.032 and 1.077, linear CK 0.992 and 0.988).
+                EXPECT_NEAR(c->observed_order, 1.0, 0.15) << c->problem << " " << atol;
             }
             const double ea = exact_error_at(kepler, stepcert::dormand_prince54_adaptive, a);
             const double eb = exact_error_at(linear, stepcert::cash_karp54_adaptive, b);

@@ -156,8 +156,9 @@ TEST(Monitor, RecordsOdeintsOwnErrorEstimateInsideItsIntegrateFunctions) {
 }
 
 TEST(Monitor, StepDoublingInsideOdeintsIntegrateFunctions) {
-    // The step-doubling monitor leaves odeint's run unchanged (Boost.Odeint as reference library)
-    // and records what step_doubling_profile records for the same run: for runge_kutta4 (the
+    // The step-doubling monitor leaves odeint's run unchanged (it wraps this very stepper, so that
+    // part checks the monitor, not the method) and records what step_doubling_profile records
+    // for the same run: for runge_kutta4 (the
     // same RK4 as stepcert's classic_rk4) and for the first-same-as-last dopri5, whose half-step
     // copy is reset before each pair (so its run is still odeint's own).
     using S = std::array<double, 4>;

@@ -163,8 +163,8 @@ TEST(MilnePeceRun, ReproducesOdeintsAdamsBashforthMoulton) {
 template <std::size_t Steps>
 void expect_monitor_matches_profile_and_odeint(std::size_t n) {
     // Inside odeint's own integrate_n_steps, the monitor takes odeint's adams_bashforth_moulton
-    // steps bit for bit (Boost.Odeint as reference library) and records what
-    // milne_local_error_profile records for the same run.
+    // steps bit for bit (it wraps this very stepper: a check of the monitor, not of the method)
+    // and records what milne_local_error_profile records for the same run.
     using S = std::array<double, 4>;
     const double h = 20.0 / static_cast<double>(n);
     stepcert::local_error_profile log;

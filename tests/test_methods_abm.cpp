@@ -1,6 +1,6 @@
 // Adams–Bashforth–Moulton<Steps> through run_uniform, in double and cpp_bin_float_50: start-up
-// inside the run (observer times, step count, evaluations), agreement with Boost.Odeint called
-// directly, and the n < Steps error. Observed orders: test_methods_abm_order.cpp.
+// inside the run (observer times, step count, evaluations), the driver against Boost.Odeint's
+// own integrate_n_steps, and the n < Steps error. Observed orders: test_methods_abm_order.cpp.
 #include <string>
 #include <utility>
 #include <vector>
@@ -69,9 +69,12 @@ TYPED_TEST(AdamsBashforthMoulton, EvaluationCounts) {
 }
 
 TYPED_TEST(AdamsBashforthMoulton, AgreesWithOdeintCalledDirectly) {
-    // Outside reference: Boost.Odeint's adams_bashforth_moulton under integrate_n_steps; for 4
-    // steps with odeint's default start-up (RK4), for 6 steps with Fehlberg 7(8) given to odeint
-    // as its initializing stepper, as stepcert does.
+    // Driver check, not a check of the method: adams_bashforth_moulton<Steps> wraps odeint's
+    // adams_bashforth_moulton, compared here with the same stepper under odeint's own
+    // integrate_n_steps; for 4 steps with odeint's default start-up (RK4), for 6 steps with
+    // Fehlberg 7(8) given to odeint as its initializing stepper, as stepcert does. The method is
+    // checked independently by stepcert's own PECE loop reproducing odeint's steps
+    // (test_estimate_milne.cpp, MilnePeceRun) and by its observed orders (test_methods_abm_order.cpp).
     using T = TypeParam;
     using S = std::vector<T>;
     const std::size_t n = 40;

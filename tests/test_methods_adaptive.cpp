@@ -1,5 +1,5 @@
 // Cash–Karp 5(4) and Fehlberg 7(8) with odeint's step control through run_adaptive, in double
-// and in cpp_bin_float_50: agreement with Boost.Odeint's own integrate_times, step and
+// and in cpp_bin_float_50: the driver against Boost.Odeint's own integrate_times, step and
 // evaluation counts, accuracy against exact solutions; for all three adaptive Runge–Kutta
 // methods bounded loops and bad inputs. Dormand–Prince with dense output: test_methods_adaptive_dense.cpp.
 #include <cmath>
@@ -34,8 +34,11 @@ using Scalars = ::testing::Types<double, mp50>;
 TYPED_TEST_SUITE(AdaptiveRungeKutta, Scalars);
 
 TYPED_TEST(AdaptiveRungeKutta, ControlledStepsAgreeWithOdeintIntegrateTimes) {
-    // Outside reference: Boost.Odeint's controlled_runge_kutta driven by its own integrate_times
-    // from the same first trial step. Same arithmetic, so the states agree to round-off and the
+    // Driver check, not a check of the methods: the wrappers run odeint's controlled_runge_kutta,
+    // compared here with the same controller under odeint's own integrate_times from the same
+    // first trial step (the methods are checked independently by stepcert's embedded tableau
+    // steppers, test_methods_tableau.cpp, TableauAdaptive, and against the exact solution below).
+    // Same arithmetic, so the states agree to round-off and the
     // accepted steps match. odeint re-evaluates f(t, y) for every attempt, stepcert once per
     // accepted point, so odeint's evaluation count exceeds ours by exactly the rejected steps.
     using T = TypeParam;

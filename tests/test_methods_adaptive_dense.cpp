@@ -1,5 +1,5 @@
 // Dormand–Prince 5(4) with step control and dense output through run_adaptive, in double and in
-// cpp_bin_float_50: agreement with Boost.Odeint's dense_output_runge_kutta under its own
+// cpp_bin_float_50: the driver against Boost.Odeint's dense_output_runge_kutta under its own
 // integrate_times, evaluation counts, output times that cut no steps, accuracy.
 #include <vector>
 
@@ -25,8 +25,11 @@ using Scalars = ::testing::Types<double, mp50>;
 TYPED_TEST_SUITE(DenseDormandPrince, Scalars);
 
 TYPED_TEST(DenseDormandPrince, DenseDormandPrinceAgreesWithOdeintDenseOutput) {
-    // Outside reference: Boost.Odeint's dense_output_runge_kutta<controlled dopri5> under its
-    // integrate_times. Interpolated outputs agree to round-off, accepted steps match.
+    // Driver check, not a check of the method: dormand_prince54_adaptive wraps odeint's
+    // dense_output_runge_kutta<controlled dopri5>, compared here with the same stepper under
+    // odeint's own integrate_times (interpolated outputs agree to round-off, accepted steps
+    // match). The method is checked independently against the exact solution below and by
+    // stepcert's Dormand–Prince tableau stepper (test_methods_tableau.cpp).
     using T = TypeParam;
     using S = std::vector<T>;
     const auto p = rigid_body_problem(8.0);

@@ -1,6 +1,8 @@
 #pragma once
 // Helpers for the adaptive-method tests: output grids and Boost.Odeint's own integrate_times run
-// with an evaluation counter, the outside reference the wrappers are compared with.
+// with an evaluation counter. Against a wrapper of the same odeint stepper this checks stepcert's
+// driver (step control loop, output times, counts), not the method; against stepcert's own
+// tableau steppers (test_methods_tableau.cpp) it checks the method independently.
 #include <cstddef>
 #include <vector>
 

@@ -1,5 +1,5 @@
 // Bulirsch–Stoer through run_adaptive in double and cpp_bin_float_50: variable order declared
-// honestly, agreement with Boost.Odeint's own integrate_times, counts, accuracy, bounded loops.
+// honestly, the driver against Boost.Odeint's own integrate_times, counts, accuracy, bounded loops.
 #include <cmath>
 #include <limits>
 #include <string>
@@ -35,8 +35,10 @@ using Scalars = ::testing::Types<double, mp50>;
 TYPED_TEST_SUITE(BulirschStoerTyped, Scalars);
 
 TYPED_TEST(BulirschStoerTyped, AgreesWithOdeintIntegrateTimes) {
-    // Outside reference: Boost.Odeint's bulirsch_stoer under its own integrate_times, from the
-    // same first trial step: same states to round-off and the same accepted steps. odeint
+    // Driver check, not a check of the method: the wrapper runs odeint's bulirsch_stoer, compared
+    // here with the same stepper under odeint's own integrate_times from the same first trial
+    // step (the method is checked against the exact solution in this file): same states to
+    // round-off and the same accepted steps. odeint
     // evaluates f(t, y) again for every attempt, stepcert once per accepted point, so the
     // evaluation counts differ by exactly the rejected attempts.
     using T = TypeParam;

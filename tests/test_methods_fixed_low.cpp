@@ -1,6 +1,6 @@
 // Explicit Euler, explicit midpoint and classic RK4 through run_uniform, in double and in
-// cpp_bin_float_50: stage counts, agreement with Boost.Odeint called directly, observed order,
-// and published Euler tables.
+// cpp_bin_float_50: stage counts, the driver against Boost.Odeint's own integrate_n_steps,
+// observed order, and published Euler tables.
 #include <array>
 #include <cmath>
 #include <vector>
@@ -62,8 +62,11 @@ TYPED_TEST(LowOrderFixed, EvaluationsPerStepAreTheStageCounts) {
 }
 
 TYPED_TEST(LowOrderFixed, AgreesWithOdeintCalledDirectly) {
-    // Outside reference: Boost.Odeint's euler and runge_kutta4 with its integrate_n_steps.
-    // Same arithmetic, so agreement to a few units of round-off.
+    // Driver check, not a check of the methods: explicit_euler and classic_rk4 wrap odeint's euler
+    // and runge_kutta4, so this compares run_uniform with odeint's own integrate_n_steps driving
+    // the very same steppers (agreement to a few units of round-off). The methods are checked
+    // independently by the published Euler table below and by stepcert's tableau stepper against
+    // these odeint steppers (test_methods_tableau.cpp, TableauMethod.AgreesWithOdeintSteppers).
     using T = TypeParam;
     using S = std::vector<T>;
     const std::size_t n = 50;

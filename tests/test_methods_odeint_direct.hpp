@@ -1,6 +1,8 @@
 #pragma once
-// The outside reference of the method tests: Boost.Odeint's own stepper driven by its own
-// integrate_n_steps, n uniform steps over the problem's interval from its y0.
+// Boost.Odeint's own stepper driven by its own integrate_n_steps, n uniform steps over the
+// problem's interval from its y0. Against a stepcert wrapper of that very stepper this checks
+// stepcert's driver (times, steps, start-up), not the method; against stepcert's own tableau
+// stepper (test_methods_tableau.cpp) it is an independent check of the method's arithmetic.
 #include <cstddef>
 #include <vector>
 

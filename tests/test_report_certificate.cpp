@@ -50,12 +50,15 @@ step_certificate certified() {
     c.tolerance.kind = stepcert::norm_kind::rms;
     c.measured_at = stepcert::error_measured_at::every_output_time;
     c.output_times = 11;
+    c.breakpoints = {0.8125, 1.0 / 3.0 + 1.0};
     c.level = stepcert::evidence_level::reference_verified;
     c.reason = stepcert::refusal::none;
     c.steps = 2000;
     c.step = 2.5 / 2000.0;
     c.estimated_error = 0.31724918273645;
     c.safety_factor = 3.0;
+    c.evidence = stepcert::order_evidence::above_declared;
+    c.limited_by = stepcert::step_limited_by::stability;
     c.error_band = 3.0 * 0.31724918273645;
     c.basis = "Richardson, runs with N and 2N steps";
     c.reference_error = 0.28413370001;
@@ -103,7 +106,11 @@ void expect_same(const step_certificate& a, const step_certificate& b) {
     EXPECT_EQ(a.tolerance.kind, b.tolerance.kind);
     EXPECT_EQ(a.measured_at, b.measured_at);
     EXPECT_EQ(a.output_times, b.output_times);
+    ASSERT_EQ(a.breakpoints.size(), b.breakpoints.size());
+    for (std::size_t i = 0; i < a.breakpoints.size(); ++i) EXPECT_EQ(bits(a.breakpoints[i]), bits(b.breakpoints[i])) << i;
     EXPECT_EQ(a.level, b.level);
+    EXPECT_EQ(a.evidence, b.evidence);
+    EXPECT_EQ(a.limited_by, b.limited_by);
     EXPECT_EQ(a.reason, b.reason);
     EXPECT_EQ(a.reason_detail, b.reason_detail);
     EXPECT_EQ(a.steps, b.steps);
@@ -161,13 +168,13 @@ TEST(ReportCertificateJson, DocumentLayout) {
     using namespace test_report_certificate;
     const json j = stepcert::to_json(certified());
     EXPECT_EQ(j.at("format"), "stepcert.step_certificate");
-    EXPECT_EQ(j.at("format_version"), 1);
+    EXPECT_EQ(j.at("format_version"), 2);
     expect_cautions(j.at("caution").get<std::string>());
     // The fields documented in docs/certificate-format.md, no more and no fewer.
     EXPECT_EQ(keys_of(j), (std::set<std::string>{"format", "format_version", "caution", "problem", "dimension", "method",
                                                  "declared_order", "observed_order", "t0", "t1", "tolerance", "measured_at",
-                                                 "output_times", "level", "reason", "reason_detail", "steps", "step",
-                                                 "controller_atol", "controller_rtol",
+                                                 "output_times", "breakpoints", "level", "reason", "reason_detail", "steps", "step",
+                                                 "controller_atol", "controller_rtol", "evidence", "limited_by",
                                                  "estimated_error", "safety_factor", "error_band", "basis", "bound",
                                                  "reference_error", "reference_digits", "stability", "evaluations",
                                                  "reference_evaluations", "library"}));
@@ -178,6 +185,10 @@ TEST(ReportCertificateJson, DocumentLayout) {
     EXPECT_EQ(j.at("measured_at"), "every output time");
     EXPECT_EQ(j.at("tolerance").at("kind"), "rms");
     EXPECT_EQ(j.at("steps"), 2000);
+    EXPECT_EQ(j.at("evidence"), "observed order above the declared");
+    EXPECT_EQ(j.at("limited_by"), "stability");
+    ASSERT_TRUE(j.at("breakpoints").is_array());
+    EXPECT_EQ(j.at("breakpoints").size(), 2u);
     EXPECT_TRUE(j.at("bound").is_null());  // no bound given: NaN
     EXPECT_EQ(j.at("library"), "0.1.0");
 }
@@ -233,11 +244,20 @@ TEST(ReportCertificateJson, EveryEnumValueReadsBack) {
                                                 evidence_level::not_certified};
     const std::vector<refusal> reasons = {refusal::none,       refusal::outside_asymptotic_range, refusal::unstable,
                                           refusal::below_round_off_floor, refusal::non_finite, refusal::budget_exhausted,
-                                          refusal::reference_unavailable, refusal::tolerance_not_met};
+                                          refusal::reference_unavailable, refusal::tolerance_not_met, refusal::unbounded_growth,
+                                          refusal::non_smooth, refusal::order_below_declared, refusal::order_not_settled,
+                                          refusal::relative_tolerance_at_zero};
+    const std::vector<stepcert::order_evidence> cases = {stepcert::order_evidence::none, stepcert::order_evidence::declared_confirmed,
+                                                         stepcert::order_evidence::above_declared,
+                                                         stepcert::order_evidence::round_off_plateau};
+    const std::vector<stepcert::step_limited_by> limits = {stepcert::step_limited_by::none, stepcert::step_limited_by::accuracy,
+                                                           stepcert::step_limited_by::stability};
     // The lists above are complete: the reader's switch knows no value past them.
     EXPECT_FALSE(stepcert::detail::is_certificate_enum(static_cast<evidence_level>(levels.size())));
     EXPECT_FALSE(stepcert::detail::is_certificate_enum(static_cast<refusal>(reasons.size())));
     EXPECT_FALSE(stepcert::detail::is_certificate_enum(static_cast<error_measured_at>(2)));
+    EXPECT_FALSE(stepcert::detail::is_certificate_enum(static_cast<stepcert::order_evidence>(cases.size())));
+    EXPECT_FALSE(stepcert::detail::is_certificate_enum(static_cast<stepcert::step_limited_by>(limits.size())));
     std::set<std::string> level_texts, reason_texts;
     auto c = certified();
     for (auto l : levels) {
@@ -254,8 +274,21 @@ TEST(ReportCertificateJson, EveryEnumValueReadsBack) {
         c.measured_at = m;
         EXPECT_EQ(through_text(c).measured_at, m) << to_string(m);
     }
+    std::set<std::string> case_texts, limit_texts;
+    for (auto e : cases) {
+        c.evidence = e;
+        case_texts.insert(std::string(to_string(e)));
+        EXPECT_EQ(through_text(c).evidence, e) << to_string(e);
+    }
+    for (auto l : limits) {
+        c.limited_by = l;
+        limit_texts.insert(std::string(to_string(l)));
+        EXPECT_EQ(through_text(c).limited_by, l) << to_string(l);
+    }
     EXPECT_EQ(level_texts.size(), levels.size());
     EXPECT_EQ(reason_texts.size(), reasons.size());
+    EXPECT_EQ(case_texts.size(), cases.size());
+    EXPECT_EQ(limit_texts.size(), limits.size());
 }
 
 TEST(ReportCertificateJson, StreamReaderRoundTrips) {
@@ -273,11 +306,35 @@ TEST(ReportCertificateJson, RejectsAnotherFormatTag) {
     expect_rejected(j, {"format"});
 }
 
-TEST(ReportCertificateJson, RejectsVersionTwo) {
+TEST(ReportCertificateJson, RejectsVersionThreeAndZero) {
     using namespace test_report_certificate;
     json j = stepcert::to_json(certified());
-    j["format_version"] = 2;
-    expect_rejected(j, {"format_version", "2"});
+    j["format_version"] = 3;
+    expect_rejected(j, {"format_version", "3", "1 to 2"});
+    j["format_version"] = 0;
+    expect_rejected(j, {"format_version", "0"});
+}
+
+// A version 1 document (before breakpoints, evidence and limited_by) still reads, with those at
+// their defaults; a version 2 document without them is refused, naming the field.
+TEST(ReportCertificateJson, ReadsVersionOneWithDefaults) {
+    using namespace test_report_certificate;
+    json j = stepcert::to_json(certified());
+    j["format_version"] = 1;
+    j.erase("breakpoints");
+    j.erase("evidence");
+    j.erase("limited_by");
+    const auto c = stepcert::step_certificate_from_json(j);
+    EXPECT_TRUE(c.breakpoints.empty());
+    EXPECT_EQ(c.evidence, stepcert::order_evidence::none);
+    EXPECT_EQ(c.limited_by, stepcert::step_limited_by::none);
+    EXPECT_EQ(c.steps, 2000u);
+    json v2 = stepcert::to_json(certified());
+    v2.erase("evidence");
+    expect_rejected(v2, {"'evidence'", "missing"});
+    json bad = stepcert::to_json(certified());
+    bad["breakpoints"] = json::array({0.5, "later"});
+    expect_rejected(bad, {"breakpoints"});
 }
 
 TEST(ReportCertificateJson, RejectsMissingField) {

@@ -279,6 +279,7 @@ TEST(BadInput, RejectedWithTypedErrors) {
     EXPECT_THROW((void)stepcert::check_run_stability(p, rk4, 0.01, bad), stepcert::invalid_input);
     try {
         (void)stepcert::check_linear_stability(p, rk4, -1.0, one, t0);
+        ADD_FAILURE() << "a negative step was accepted";
     } catch (const stepcert::invalid_input& e) {
         EXPECT_THAT(e.what(), HasSubstr(p.name()));
     }

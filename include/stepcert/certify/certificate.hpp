@@ -6,6 +6,7 @@
 #include <limits>
 #include <string>
 #include <string_view>
+#include <vector>
 
 #include "stepcert/core/norm.hpp"
 
@@ -22,17 +23,34 @@ enum class evidence_level {
     not_certified,       ///< no step is certified; refusal says why
 };
 
-/// Why a certification refused, or none.
+/// Why a certification refused, or none. The detail (step_certificate::reason_detail) gives
+/// the figures that were measured and what to do.
 enum class refusal {
     none,
-    outside_asymptotic_range,  ///< the observed order never agreed with the declared one
+    outside_asymptotic_range,  ///< the runs at the step judged do not show the declared order yet
     unstable,                  ///< h * lambda leaves the method's stability region
-    below_round_off_floor,     ///< the tolerance is under what the scalar type can resolve
-    non_finite,                ///< the run produced NaN or infinity
+    below_round_off_floor,     ///< successive runs differ by rounding only, and that exceeds the tolerance
+    non_finite,                ///< NaN or infinity from the model (double runs or the reference), with time and component
     budget_exhausted,          ///< the evaluation budget ran out before a step was found
     reference_unavailable,     ///< the level asked for needs a reference that could not be had
     tolerance_not_met,         ///< the step judged (certify_step_count) is too large for the tolerance
+    unbounded_growth,          ///< the solution grows without bound as the step shrinks (a blow-up)
+    non_smooth,                ///< the order falls below the declared one where the error is made: an interval is named
+    order_below_declared,      ///< the order settles below the declared one everywhere (not localized)
+    order_not_settled,         ///< the observed order wandered without settling before the search ended
+    relative_tolerance_at_zero,  ///< atol = 0 and a component is zero: a relative tolerance has no scale there
 };
+
+/// Which case the estimate rests on (the GCI safety factor follows from it).
+enum class order_evidence {
+    none,                ///< no estimate formed (not certified, or a reference / bound alone)
+    declared_confirmed,  ///< three runs show the declared order: Richardson with it, safety factor 1.25
+    above_declared,      ///< the observed order stays above the declared one: the declared order, safety factor 3
+    round_off_plateau,   ///< successive runs agree to rounding: their difference and the round-off floor, safety factor 3
+};
+
+/// What set the certified step: the tolerance, or the method's stability region.
+enum class step_limited_by { none, accuracy, stability };
 
 /// Where the tolerance is measured: the largest error over the output grid, or at t1 only.
 enum class error_measured_at { every_output_time, final_time };
@@ -57,6 +75,30 @@ inline std::string_view to_string(refusal r) {
     case refusal::budget_exhausted: return "evaluation budget exhausted";
     case refusal::reference_unavailable: return "reference unavailable";
     case refusal::tolerance_not_met: return "tolerance not met";
+    case refusal::unbounded_growth: return "unbounded growth";
+    case refusal::non_smooth: return "not smooth";
+    case refusal::order_below_declared: return "order below the declared";
+    case refusal::order_not_settled: return "order not settled";
+    case refusal::relative_tolerance_at_zero: return "relative tolerance at a zero value";
+    }
+    return "?";
+}
+
+inline std::string_view to_string(order_evidence e) {
+    switch (e) {
+    case order_evidence::none: return "none";
+    case order_evidence::declared_confirmed: return "declared order confirmed";
+    case order_evidence::above_declared: return "observed order above the declared";
+    case order_evidence::round_off_plateau: return "runs agree to round-off";
+    }
+    return "?";
+}
+
+inline std::string_view to_string(step_limited_by l) {
+    switch (l) {
+    case step_limited_by::none: return "none";
+    case step_limited_by::accuracy: return "accuracy";
+    case step_limited_by::stability: return "stability";
     }
     return "?";
 }
@@ -84,7 +126,10 @@ struct step_certificate {
     double t0 = 0.0, t1 = 0.0;
     weighted_norm tolerance;   ///< error <= 1 in this norm means met
     error_measured_at measured_at = error_measured_at::every_output_time;
-    std::size_t output_times = 1;  ///< evenly spaced, t1 among them
+    std::size_t output_times = 1;  ///< evenly spaced, t1 among them (per segment: see breakpoints)
+    /// The problem's breakpoints: the certified runs land on each, with uniform steps of at most h
+    /// within each segment (run_uniform's layout: each segment gets its share of the output times).
+    std::vector<double> breakpoints;
 
     // The answer.
     evidence_level level = evidence_level::not_certified;
@@ -97,6 +142,8 @@ struct step_certificate {
     double controller_rtol = std::numeric_limits<double>::quiet_NaN();
 
     // The evidence, in tolerance units (<= 1: met).
+    order_evidence evidence = order_evidence::none;     ///< the case the estimate rests on
+    step_limited_by limited_by = step_limited_by::none;  ///< what set the certified step
     double estimated_error = std::numeric_limits<double>::quiet_NaN();  ///< Richardson (+ difference: basis)
     double safety_factor = std::numeric_limits<double>::quiet_NaN();
     double error_band = std::numeric_limits<double>::quiet_NaN();       ///< safety factor * Richardson part (+ difference)

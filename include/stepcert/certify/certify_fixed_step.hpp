@@ -4,33 +4,54 @@
 // tol (a weighted norm; <= 1 is met) at every output time or at t1; certify_step_count(p, m, N,
 // tol) judges a step the user already runs with. Both return a step_certificate; bad arguments
 // throw, while a step that cannot be certified gives a certificate at level not_certified with
-// the reason.
+// the reason, measured, and what to do.
 //
-// The search doubles N from a coarse start (the stability limit at y0, or a few steps) until
-// three successive runs show the declared order (observed within order_tolerance) above the
-// round-off floor: the asymptotic range. Once a prediction says N* lies past the last run, the
-// next run is aimed at it rather than doubled. The Richardson estimate of the finest run's error,
-// times the Grid Convergence Index safety factor (P. J. Roache 1998; I. B. Celik et al., J. Fluids
-// Eng. 130(7) 078001, 2008), certifies that run, or predicts N* past it with C h^p scaling and
-// one more run confirms it. A coarser run already made is then taken if its difference from the
-// certified run plus that run's band meets the target (triangle inequality: nothing is assumed
-// about the coarser run, which may lie before the asymptotic range). Its stability is checked
-// (h lambda inside the method's region for every decaying eigenvalue sampled along the run), and,
-// when asked and possible, its error is measured against the exact solution or a multiprecision
-// reference, which may then show a still coarser step meets the tolerance.
+// The search doubles N from a coarse start (the stability limit at y0, or a few steps) and reads
+// the observed order from each three successive runs. It stops when
+//  * three runs show the declared order (within order_tolerance): Richardson with the observed
+//    order (at most the declared), times the Grid Convergence Index safety factor (P. J. Roache
+//    1998; I. B. Celik et al., J. Fluids Eng. 130(7) 078001, 2008);
+//  * two readings in a row agree with each other above the declared order (pairs with small
+//    leading error coefficients): Richardson with the declared order, conservative when the
+//    error falls faster, and the safety factor for an unconfirmed order (3);
+//  * successive runs differ by rounding only (the round-off plateau): a run is then judged by
+//    its difference from the plateau's first run plus that run's rounding, safety factor 3; it is
+//    refused as below the round-off floor only when that exceeds the tolerance. (Stiff problems
+//    with an explicit method land here: every stable step is already accurate to rounding.)
+//  * three readings settle below the declared order: the error is located from the local error
+//    profile (certify/detail/locate_non_smooth.hpp) and the refusal names the interval;
+//  * runs blow up the same way at the same time three times in a row: a model that returns NaN
+//    there, or a solution that grows without bound; or finite runs grow by a steady factor
+//    per refinement (a blow-up at the end of the interval). Runs that blow up from an unstable
+//    step (measured at the failing state) are only the search's coarse start: it goes on, aiming
+//    at the stable step.
+// Once a prediction says N* lies past the last run, the next run is aimed at it rather than
+// doubled. A coarser run already made is then taken if its difference from the certified run
+// plus that run's band meets the target (triangle inequality: nothing is assumed about the
+// coarser run), and when stability stopped it, the run at the stable step limit is tried. Its
+// stability is checked (h lambda inside the method's region for every decaying eigenvalue
+// sampled along the run), and, when asked and possible, its error is measured against the exact
+// solution or a multiprecision reference, which may then show a still coarser step meets the
+// tolerance. The certificate says which case the estimate rests on (evidence) and whether
+// accuracy or stability set the step (limited_by).
 #include <algorithm>
+#include <array>
 #include <cmath>
-#include <cstdio>
 #include <cstddef>
 #include <limits>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "stepcert/certify/certificate.hpp"
 #include "stepcert/certify/certify_options.hpp"
+#include "stepcert/certify/detail/certify_evidence.hpp"
 #include "stepcert/certify/detail/certify_runs.hpp"
+#include "stepcert/certify/detail/failure_reading.hpp"
 #include "stepcert/certify/detail/grid_truth.hpp"
+#include "stepcert/certify/detail/locate_non_smooth.hpp"
+#include "stepcert/certify/detail/search_ladder.hpp"
 #include "stepcert/certify/grid_convergence_index.hpp"
 #include "stepcert/certify/stability_check.hpp"
 #include "stepcert/core/concepts.hpp"
@@ -44,214 +65,24 @@ namespace stepcert {
 
 namespace detail {
 
-inline std::size_t round_up_to(std::size_t n, std::size_t G) { return std::max<std::size_t>(G, (n + G - 1) / G * G); }
-
-/// Four significant digits, for certificate texts.
-inline std::string certificate_number(double x) { return formatted_number(x, "%.4g"); }
-
-template <class P, class M>
-void check_certify_arguments(const P& p, const M& m, const weighted_norm& tol, const certify_options& opt,
-                             const std::string& who) {
-    static_assert(!is_multistep<M>::value,
-                  "stepcert::certify: multistep methods are not certified yet (their stability is not that of "
-                  "one step); certify a one-step method.");
-    check_tolerance(tol, who);
-    opt.validate(who);
-    if (m.order() <= 0)
-        throw invalid_input(who + "method '" + std::string(m.name()) +
-                            "' declares no order (order() = " + std::to_string(m.order()) +
-                            "); certification scales errors as h^p and needs the design order p >= 1.");
-    (void)p;
+/// The reference met a NaN or infinity: the model fails in the reference's scalar type.
+inline step_certificate refuse_non_finite_reference(step_certificate c, const std::string& why) {
+    return refuse(std::move(c), refusal::non_finite,
+                  "the multiprecision reference met a non-finite value, while the double-precision runs stayed finite: " + why +
+                      " The model behaves differently in the reference's scalar type there: check its generic code path "
+                      "(every function and constant it uses in that type).");
 }
 
-template <class P>
-step_certificate blank_certificate(const P& p, std::string_view method, int order, const weighted_norm& tol,
-                                   const certify_options& opt) {
-    step_certificate c;
-    c.problem = p.name();
-    c.dimension = p.dimension();
-    c.method = std::string(method);
-    c.declared_order = order;
-    c.t0 = static_cast<double>(p.t0());
-    c.t1 = static_cast<double>(p.t1());
-    c.tolerance = tol;
-    c.measured_at = opt.measured_at;
-    c.output_times = opt.output_times;
-    return c;
-}
-
-inline step_certificate refuse(step_certificate c, refusal why, std::string detail) {
-    c.level = evidence_level::not_certified;
-    c.reason = why;
-    c.reason_detail = std::move(detail);
-    c.steps = 0;
-    c.step = std::numeric_limits<double>::quiet_NaN();
-    c.controller_atol = c.controller_rtol = std::numeric_limits<double>::quiet_NaN();
-    return c;
-}
-
-/// No truth at hand: a refusal when the reference-verified level was required, else the reason
-/// noted in the basis (the certificate stays estimated).
-inline std::optional<step_certificate> without_truth(step_certificate& c, const certify_options& opt, const std::string& why) {
-    if (opt.require_reference)
-        return refuse(c, refusal::reference_unavailable,
-                      "the reference-verified level was required, but no reference could be had: " + why);
-    c.basis += "; no reference check: " + why;
-    return std::nullopt;
-}
-
-/// The round-off level of one step at y0, in tolerance units: eps |y0| per component.
-template <class P>
-double round_off_units_at_start(const P& p, const weighted_norm& tol, double factor) {
-    using D = rebind_state<typename P::state_type, double>;
-    const D y0 = convert_state<D>(p.y0());
-    D e = y0;
-    for (std::size_t i = 0; i < state_size(e); ++i)
-        e[i] = factor * std::numeric_limits<double>::epsilon() * std::abs(y0[i]);
-    return tol.of_difference(e, y0);
-}
-
-/// The stability of step h at the given sample states, as the certificate records it.
-template <class P, class M, class S, class T>
-stability_record stability_at(const P& p, const M& m, double h, const std::vector<S>& states, const std::vector<T>& times,
-                              std::size_t& evaluations) {
-    const auto v = check_linear_stability(p, m, h, states, times);
-    evaluations += v.rhs_evaluations;
-    stability_record rec;
-    rec.checked = true;
-    rec.stable = v.stable;
-    rec.margin = v.margin;
-    rec.step_limit = v.step_limit;
-    if (v.worst) {
-        rec.worst_mode = "lambda = " + certificate_number(v.worst->lambda.real()) +
-                         (v.worst->lambda.imag() != 0.0 ? " + " + certificate_number(v.worst->lambda.imag()) + "i" : std::string()) +
-                         " at t = " + certificate_number(v.worst->time) + ", |R(h lambda)| = " + certificate_number(v.worst->amplification);
-    } else {
-        rec.worst_mode = "no decaying mode at the samples";
-    }
-    return rec;
-}
-
-/// The stability of the run with n steps, at its output-grid states (the run is already made).
-template <class P, class M>
-stability_record stability_of_run(const P& p, const M& m, certify_runs<P, M>& runs, std::size_t n,
-                                  const certify_options& opt, std::size_t& evaluations) {
-    if (!opt.check_stability) return {};
-    const auto& r = runs.at(n);
-    return stability_at(p, m, static_cast<double>(p.t1() - p.t0()) / static_cast<double>(n), r.states, r.times, evaluations);
-}
-
-/// The Richardson error band, in tolerance units, of the run with n steps from the run with
-/// partner steps (grid_convergence_index.hpp: the fine or the coarse solution's band).
-inline double richardson_band(double difference, std::size_t n, std::size_t partner, double order, double safety) {
-    const double r = static_cast<double>(std::max(n, partner)) / static_cast<double>(std::min(n, partner));
-    return n > partner ? fine_solution_error_band(difference, r, order, safety)
-                       : coarse_solution_error_band(difference, r, order, safety);
-}
-
-/// The ladder run to compare N with: ratio nearest 2, at least 1.3 (a smaller ratio divides a
-/// difference of the size of rounding by r^p - 1 ~ 0).
-inline std::size_t richardson_partner(std::size_t n, const std::vector<std::size_t>& candidates) {
-    std::size_t best = 0;
-    double best_gap = std::numeric_limits<double>::infinity();
-    for (std::size_t c : candidates) {
-        const double r = static_cast<double>(std::max(n, c)) / static_cast<double>(std::min(n, c));
-        if (r < 1.3) continue;
-        const double gap = std::abs(std::log(r / 2.0));
-        if (gap < best_gap) best_gap = gap, best = c;
-    }
-    return best;
-}
-
-/// c judged by its difference d from a finer run with fine_steps whose Richardson estimate, band
-/// and basis are given: the triangle inequality at each output time bounds c's error by d plus the
-/// finer run's error. One wording for certify's coarsening and certify_step_count's re-judging
-/// (tests and check_certificate read "from the run with N steps").
-inline void judge_from_finer_run(step_certificate& c, double d, std::size_t fine_steps, double fine_estimate,
-                                 double fine_band, const std::string& fine_basis) {
-    c.basis = "difference " + certificate_number(d) + " from the run with " + std::to_string(fine_steps) +
-              " steps plus that run's band " + certificate_number(fine_band) + " (" + fine_basis + ")";
-    c.estimated_error = d + fine_estimate;
-    c.error_band = d + fine_band;
-}
-
-/// A run coarser than the certified one (c.steps, with its Richardson band) meets the tolerance
-/// if its difference from that run plus that band does, by the triangle inequality at each
-/// output time; nothing is assumed about the coarser run's own convergence, so it may lie before
-/// the asymptotic range. Only runs already made are judged (no new evaluations but the stability
-/// check), coarsest first; the taken run must be stable.
-template <class P, class M>
-void coarsen_by_difference(const P& p, const M& m, certify_runs<P, M>& runs, step_certificate& c, const certify_options& opt,
-                           std::size_t& stability_evaluations) {
-    const std::size_t fine = c.steps;
-    for (const std::size_t n : runs.completed()) {
-        if (n >= fine) break;
-        const double d = runs.difference(n, fine);
-        if (!(d + c.error_band <= opt.target)) continue;
-        const stability_record st = stability_of_run(p, m, runs, n, opt, stability_evaluations);
-        if (st.checked && !st.stable) continue;
-        judge_from_finer_run(c, d, fine, c.estimated_error, c.error_band, c.basis);
-        c.steps = n;
-        c.step = static_cast<double>(p.t1() - p.t0()) / static_cast<double>(n);
-        c.stability = st;
-        return;
-    }
-}
-
-/// With the truth at hand, a coarser step than the Richardson one may be shown to meet the
-/// tolerance directly (before the asymptotic range, where no estimate may be trusted): N is
-/// lowered by the measured error's h^p scaling, then bisected, keeping only runs that are
-/// stable and meet the tolerance against the truth at every output time (or t1).
-template <class P, class M, class Truth>
-void coarsen_against_truth(const P& p, const M& m, certify_runs<P, M>& runs, const Truth& truth, step_certificate& c,
-                           const certify_options& opt, std::size_t& stability_evaluations) {
-    const std::size_t G = opt.output_times;
-    const double length = static_cast<double>(p.t1() - p.t0());
-    const std::size_t richardson_n = c.steps;
-    const double richardson_band_value = c.error_band;
-    std::size_t good = c.steps, bad = 0;
-    double good_error = c.reference_error;
-    stability_record good_stability = c.stability;
-    auto passes = [&](std::size_t n, double& e, stability_record& st) {
-        try {
-            e = runs.error_against(n, truth);
-        } catch (const non_finite_value&) {
-            return false;
-        }
-        if (!(e <= 1.0)) return false;
-        st = stability_of_run(p, m, runs, n, opt, stability_evaluations);
-        return !st.checked || st.stable;
-    };
-    for (int attempt = 0; attempt < 24 && good > G; ++attempt) try {
-        std::size_t trial;
-        if (bad == 0) {
-            const double scale = std::pow(std::max(good_error, 1e-300) / 0.95, 1.0 / c.declared_order);
-            trial = round_up_to(static_cast<std::size_t>(std::ceil(static_cast<double>(good) * scale)), G);
-            if (trial >= good) trial = round_up_to(good / 2, G);
-            if (trial >= good) break;
-        } else {
-            trial = round_up_to((good + bad) / 2, G);
-            if (trial >= good || trial <= bad) break;
-        }
-        double e = 0.0;
-        stability_record st;
-        if (passes(trial, e, st))
-            good = trial, good_error = e, good_stability = st;
-        else
-            bad = trial;
-    } catch (const budget_exhausted&) {
-        break;  // keep the step already shown to meet the tolerance
-    }
-    if (good == c.steps) return;
-    c.steps = good;
-    c.step = length / static_cast<double>(good);
-    c.reference_error = good_error;
-    c.stability = good_stability;
-    c.estimated_error = std::numeric_limits<double>::quiet_NaN();
-    c.error_band = std::numeric_limits<double>::quiet_NaN();
-    c.basis = "measured against the reference at " + std::to_string(good) + " steps, coarsened from " +
-              std::to_string(richardson_n) + " steps, where " + c.basis + " gave the band " +
-              certificate_number(richardson_band_value);
+/// The refusal for a purely relative tolerance (atol = 0) at a component whose value is no larger
+/// than its error: zero (exactly, or up to the runs' own error). `against` names the scale.
+inline step_certificate refuse_unscaled(const step_certificate& c, const std::array<double, 4>& z, const std::string& against,
+                                        const std::string& seen) {
+    return refuse(c, refusal::relative_tolerance_at_zero,
+                  "the tolerance is purely relative (atol = 0), but component " + std::to_string(static_cast<std::size_t>(z[0])) +
+                      " at t = " + formatted_number(z[1], "%.6g") + " is " + formatted_number(z[2], "%.4g") + " in " + against +
+                      " and differs from it by " + formatted_number(z[3], "%.4g") + seen +
+                      ": its value is no larger than its own error (it is zero, or zero in truth), so a relative error has "
+                      "no scale there. Give the tolerance an absolute part (atol > 0) of the size that component may be off by.");
 }
 
 } // namespace detail
@@ -267,12 +98,13 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
     const int p_declared = m.order();
     step_certificate c = detail::blank_certificate(p, m.name(), p_declared, tol, opt);
 
-    if (detail::round_off_units_at_start(p, tol, opt.round_off_factor) >= opt.target)
+    if (const double u = detail::round_off_units_at_start(p, tol, opt.round_off_factor); u >= opt.target)
         return detail::refuse(c, refusal::below_round_off_floor,
-                              "the tolerance is below the rounding of the initial state in double (" +
-                                  std::to_string(opt.round_off_factor) +
-                                  " eps |y0| already exceeds it); no step can meet it in this scalar type: loosen it, "
-                                  "or run a multiprecision state (e.g. float128).");
+                              "the tolerance is below the rounding of the initial state in double: " +
+                                  detail::certificate_number(opt.round_off_factor) + " eps |y0| is already " +
+                                  detail::certificate_number(u) +
+                                  " of the tolerance; no step can meet it in this scalar type: loosen it, or run a "
+                                  "multiprecision state (e.g. float128).");
 
     detail::certify_runs<P, M> runs(p, m, tol, opt);
     std::size_t stability_evaluations = 0;
@@ -293,53 +125,115 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             n0 = detail::round_up_to(static_cast<std::size_t>(std::ceil(length / (0.95 * s0.step_limit))), G);
     }
 
-    // The ladder: each level is twice the last, or, once the declared order predicts N* within
-    // that, N* itself; it stops when its last three levels show the declared order (any ratios:
-    // three_level_order). Aiming at N* saves the run past it: the search then costs about two runs
-    // of its finest level plus N*.
-    std::vector<std::size_t> level;
-    std::vector<double> diff;  // diff[k]: |run(level[k-1]) - run(level[k])|, diff[0] unused
+    // The ladder: each level is twice the last, or, once the order predicts N* within that, N*
+    // itself (see the top of this file for when it stops).
+    detail::ladder_record L;
     std::optional<std::size_t> consistent_at;
+    order_evidence evidence = order_evidence::none;
     double p_used = p_declared, p_seen = std::numeric_limits<double>::quiet_NaN();
+    double safety = opt.safety_factor;
     std::size_t n_star = 0;
-    bool reached_round_off = false;
+    bool plateau = false, low_order = false, stalled = false;
+    std::optional<std::array<double, 4>> unscaled_before;
     // N* for a share of the target (below 1 leaves room for the estimate's scatter between runs).
     auto predicted = [&](std::size_t coarse, std::size_t fine, double d, double order, double share) {
-        const double band = detail::richardson_band(d, fine, coarse, order, opt.safety_factor);
+        const double band = detail::richardson_band(d, fine, coarse, order, safety);
         const double want = static_cast<double>(fine) * std::pow(band / (share * opt.target), 1.0 / p_declared);
         return detail::round_up_to(static_cast<std::size_t>(std::min(std::ceil(want), 1e18)), G);
+    };
+    auto budget_refusal = [&](const budget_exhausted& e) {
+        return finish(detail::refuse(c, refusal::budget_exhausted,
+                                     std::string(e.what()) + " The search had made runs of " + std::to_string(L.level.front()) +
+                                         " .. " + std::to_string(L.level.back()) + " steps (" + std::to_string(spent()) +
+                                         " evaluations); observed orders: " + L.readings_text() + "."));
     };
     try {
         std::size_t n = n0;
         for (std::size_t k = 0; k < opt.max_levels; ++k) {
-            level.push_back(n);
+            L.level.push_back(n);
+            L.reading.push_back(std::numeric_limits<double>::quiet_NaN());
             double d = std::numeric_limits<double>::infinity();
+            std::size_t next = 2 * n;
+            bool finite = true;
             try {
                 runs.at(n);
-                if (k > 0) d = runs.difference(level[k - 1], n);
-            } catch (const non_finite_value&) {
-                // A blow-up at a coarse level is pre-asymptotic; a finer level may still converge.
+            } catch (const non_finite_value& e) {
+                finite = false;
+                const auto fr = detail::read_failure(p, m, n, e, opt, stability_evaluations);
+                L.streak.push_back(fr);
+                L.failed.push_back(fr);
+                using kind = detail::failure_reading::kind;
+                if (detail::same_failure_persists(L.streak, kind::model, length))
+                    return finish(detail::refuse(c, refusal::non_finite,
+                                                 "the right-hand side returned a non-finite value at the same time on three "
+                                                 "successive refinements, " + detail::failure_times_text(L.streak) +
+                                                     ", at states where the step is not unstable: the model fails there, "
+                                                     "whatever the step. The finest run: " + fr.message));
+                if (detail::same_failure_persists(L.streak, kind::growth, length))
+                    return finish(detail::refuse(c, refusal::unbounded_growth,
+                                                 "three successive refinements grew past double's range at the same time, " +
+                                                     detail::failure_times_text(L.streak) + ", along modes that grow by "
+                                                     "themselves (" + fr.stability + "; no decaying mode out of the stability "
+                                                     "region): the solution appears to grow without bound near t = " +
+                                                     detail::formatted_number(fr.time, "%.6g") +
+                                                     ". End the interval before it, or check the model. The finest run: " + fr.message));
+                // From an unstable step: the search doubles on. (The stable step measured at the
+                // failing state is no aim: a coarse step's states overshoot, and so does their limit.)
             }
-            diff.push_back(d);
-            std::size_t next = 2 * n;
-            if (k >= 1 && std::isfinite(d) && d > 0.0) {
-                // Down at rounding: by the floor estimate, or, once the declared order has been seen,
-                // by differences that stop falling as h shrinks (the plateau; rounding in long runs
-                // can grow faster than the floor's sqrt(N)).
-                if (d <= runs.round_off_floor_units(n) || (std::isfinite(p_seen) && !(d < diff[k - 1]))) {
-                    reached_round_off = true;
+            if (finite) {
+                L.streak.clear();
+                if (k > 0 && runs.failure(L.level[k - 1]) == nullptr) {
+                    d = runs.difference(L.level[k - 1], n);
+                    // A purely relative tolerance at a component that is zero: at once when it is
+                    // exactly zero, else when two refinements in a row leave it within its error.
+                    const auto& fine_run = runs.at(n);
+                    const auto z = runs.value_within_its_error(L.level[k - 1], [&](std::size_t j) -> const auto& { return fine_run.states[j]; });
+                    // (Not falling with the step: a small value the coarse runs still miss would.)
+                    auto ratio = [](const std::array<double, 4>& a) { return a[3] / std::abs(a[2]); };
+                    if (z && (std::isinf(d) || (unscaled_before && (*unscaled_before)[0] == (*z)[0] &&
+                                                (*unscaled_before)[1] == (*z)[1] && ratio(*z) >= 0.5 * ratio(*unscaled_before))))
+                        return finish(detail::refuse_unscaled(c, *z, "the run with " + std::to_string(n) + " steps",
+                                                              " in the run with " + std::to_string(L.level[k - 1]) + " steps" +
+                                                                  (std::isinf(d) ? std::string() : ", as on the refinement before")));
+                    unscaled_before = z;
+                } else {
+                    unscaled_before.reset();
+                }
+            }
+            L.diff.push_back(d);
+            if (finite) {
+                if (auto growth = detail::growth_without_bound(runs, L))
+                    return finish(detail::refuse(c, refusal::unbounded_growth, *growth));
+            }
+            if (finite && k >= 1 && std::isfinite(d)) {
+                // Down at rounding: by the floor estimate, or, once an order has been seen, by
+                // differences that stop falling as h shrinks (rounding in long runs can grow
+                // faster than the floor's sqrt(N)).
+                if (d <= runs.round_off_floor_units(n) || (std::isfinite(p_seen) && !(d < L.diff[k - 1]))) {
+                    plateau = true;
+                    break;
+                }
+                // Stalled above rounding: four halvings of the step cut the difference by less
+                // than half (an order below 0.25): more steps buy nothing.
+                if (k >= 5 && std::isfinite(L.diff[k - 4]) && d >= L.diff[k - 4] / 2) {
+                    stalled = true;
                     break;
                 }
                 double p_aim = p_declared;
-                if (k >= 2 && std::isfinite(diff[k - 1])) {
-                    const double observed = three_level_order(length / static_cast<double>(level[k - 2]),
-                                                              length / static_cast<double>(level[k - 1]),
-                                                              length / static_cast<double>(n), diff[k - 1], d);
-                    if (std::abs(observed - p_declared) <= opt.order_tolerance) {
-                        p_seen = observed;
-                        p_used = p_aim = std::min(observed, static_cast<double>(p_declared));
+                if (k >= 2 && std::isfinite(L.diff[k - 1])) {
+                    const double q = three_level_order(length / static_cast<double>(L.level[k - 2]),
+                                                       length / static_cast<double>(L.level[k - 1]),
+                                                       length / static_cast<double>(n), L.diff[k - 1], d);
+                    L.reading[k] = q;
+                    const bool confirmed = std::abs(q - p_declared) <= opt.order_tolerance;
+                    const bool above = detail::steady_above(L.reading[k - 1], q, p_declared, opt.order_tolerance);
+                    if (confirmed || above) {
+                        p_seen = q;
+                        evidence = confirmed ? order_evidence::declared_confirmed : order_evidence::above_declared;
+                        safety = confirmed ? opt.safety_factor : opt.unconfirmed_safety_factor;
+                        p_used = p_aim = confirmed ? std::min(q, static_cast<double>(p_declared)) : p_declared;
                         // A run past n is aimed at 0.97 of the target: a second try would cost a run.
-                        const std::size_t candidate = predicted(level[k - 1], n, d, p_used, 0.97);
+                        const std::size_t candidate = predicted(L.level[k - 1], n, d, p_used, 0.97);
                         if (candidate <= 2 * n) {
                             consistent_at = k;
                             // The finest run of the range, or the one run past it the prediction asks
@@ -347,11 +241,19 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                             n_star = std::max(candidate, n);
                             break;
                         }
+                    } else if (const auto last = L.last_three_readings()) {
+                        // Settled below: three readings under the declared order, within the
+                        // tolerance of each other. More steps will not bring the order back.
+                        const auto [lo, hi] = std::minmax({(*last)[0], (*last)[1], (*last)[2]});
+                        if (hi < p_declared - opt.order_tolerance && hi - lo <= 2 * opt.order_tolerance) {
+                            low_order = true;
+                            break;
+                        }
                     }
                 }
-                // Aim a little finer than needed (0.9 of the target), with the order seen if it is
+                // Aim a little finer than needed (0.8 of the target), with the order seen if it is
                 // in range (a lower one asks for more steps), so the level is likely to pass.
-                const std::size_t aim = predicted(level[k - 1], n, d, p_aim, 0.8);
+                const std::size_t aim = predicted(L.level[k - 1], n, d, p_aim, 0.8);
                 // Not closer than 1.25 n: the last two levels must differ by more than rounding.
                 // A prediction at or below n, before the order has shown, is no aim: the search
                 // doubles on to find the asymptotic range (steps of 1.25 would cost ~5 runs).
@@ -360,40 +262,186 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             n = next;
         }
     } catch (const budget_exhausted& e) {
-        return finish(detail::refuse(c, refusal::budget_exhausted, e.what()));
+        return budget_refusal(e);
     }
-    c.observed_order = p_seen;
+    // The round-off plateau after readings that stayed above the declared order, steady, up to
+    // it: Richardson on the last two levels before it, with the declared order.
+    if (!consistent_at && plateau && L.level.size() >= 4) {
+        const std::size_t k = L.level.size() - 2;  // the last level before the plateau's
+        if (detail::steady_above(L.reading[k - 1], L.reading[k], p_declared, opt.order_tolerance)) {
+            const double q = L.reading[k];
+            consistent_at = k;
+            p_seen = q;
+            evidence = order_evidence::above_declared;
+            safety = opt.unconfirmed_safety_factor;
+            p_used = p_declared;
+            n_star = std::max(predicted(L.level[k - 1], L.level[k], L.diff[k], p_used, 0.97), L.level[k]);
+            n_star = std::min(n_star, L.level[k]);  // finer runs would only meet rounding
+        }
+    }
+    c.observed_order = std::isfinite(p_seen) ? p_seen : (L.reading.empty() ? p_seen : L.reading.back());
+
+    detail::truth_once<P> truths(p, G, tol);
     if (!consistent_at) {
-        if (reached_round_off)
-            return finish(detail::refuse(c, refusal::below_round_off_floor,
-                                         "the differences between successive runs reached the round-off floor before the "
-                                         "error met the tolerance: the tolerance is below what double resolves for this "
-                                         "problem; loosen it, or run a multiprecision state."));
+        if (plateau) {
+            // The plateau's first run: its difference from the next is rounding, so its error is
+            // about that plus its own rounding; estimated with the unconfirmed safety factor.
+            const std::size_t k = L.level.size() - 1;
+            const std::size_t fine = L.level[k - 1];
+            const double d = L.diff[k];
+            double floor_units = 0.0;
+            try {
+                floor_units = std::max(runs.round_off_floor_units(fine), runs.round_off_floor_units(L.level[k]));
+            } catch (const error&) {
+                floor_units = d;
+            }
+            const double band = opt.unconfirmed_safety_factor * (d + floor_units);
+            if (!(band <= opt.target))
+                return finish(detail::refuse(
+                    c, refusal::below_round_off_floor,
+                    "the runs with " + std::to_string(fine) + " and " + std::to_string(L.level[k]) + " steps differ by " +
+                        detail::certificate_number(d) + " of the tolerance, at the round-off level of double for runs this long (" +
+                        detail::certificate_number(floor_units) + " of the tolerance: " +
+                        detail::certificate_number(opt.round_off_factor) + " sqrt(N) eps |y|), so no run resolves the error below "
+                        "about " + detail::certificate_number(band) + " of the tolerance (safety factor " +
+                        detail::certificate_number(opt.unconfirmed_safety_factor) + "). Observed orders before it: " +
+                        L.readings_text() + ". Loosen the tolerance, or run a multiprecision state."));
+            c.steps = fine;
+            c.step = length / static_cast<double>(fine);
+            c.estimated_error = d + floor_units;
+            c.safety_factor = opt.unconfirmed_safety_factor;
+            c.error_band = band;
+            c.evidence = order_evidence::round_off_plateau;
+            c.basis = "round-off plateau: the runs with " + std::to_string(fine) + " and " + std::to_string(L.level[k]) +
+                      " steps differ by " + detail::certificate_number(d) + ", within the round-off level " +
+                      detail::certificate_number(floor_units) + " (both in tolerance units), so the run with " +
+                      std::to_string(fine) + " steps is estimated at that difference plus that level, safety factor " +
+                      detail::certificate_number(opt.unconfirmed_safety_factor) + " (the order is not confirmed there; observed " +
+                      L.readings_text(3) + ")";
+            c.level = evidence_level::estimated;
+            c.stability = detail::stability_of_run(p, m, runs, fine, opt, stability_evaluations);
+            if (c.stability.checked && !c.stability.stable)
+                return finish(detail::refuse(c, refusal::unstable,
+                                             "the runs agree to rounding at " + std::to_string(fine) + " steps, but that step is "
+                                             "outside the stability region along the run (" + c.stability.worst_mode +
+                                             "): take at least " +
+                                             std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) +
+                                             " steps."));
+            const double fine_estimate = c.estimated_error, fine_band = c.error_band;
+            const std::string fine_basis = c.basis;
+            detail::coarsen_by_difference(p, m, runs, c, opt, stability_evaluations, L.coarser_blew_up_unstable(fine));
+            try {
+                detail::toward_stability_limit(p, m, runs, c, fine, fine_estimate, fine_band, fine_basis, opt, stability_evaluations);
+            } catch (const budget_exhausted&) {
+                // Keep the step already shown.
+            }
+            if (opt.verify_with_reference) {
+                if (const auto* truth = truths.get(c)) {
+                    c.reference_error = runs.error_against(c.steps, *truth);
+                    if (!(c.reference_error <= 1.0)) {
+                        if (const auto z = runs.value_within_its_error(c.steps, [&](std::size_t j) -> const auto& { return (*truth)[j - 1]; }))
+                            return finish(detail::refuse_unscaled(c, *z, "the reference", " in the run with " + std::to_string(c.steps) + " steps"));
+                        const double at_fine = runs.error_against(fine, *truth);
+                        return finish(detail::refuse(
+                            c, refusal::tolerance_not_met,
+                            "the estimate from the round-off plateau is contradicted by the reference: the run with " +
+                                std::to_string(c.steps) + " steps is " + detail::certificate_number(c.reference_error) +
+                                " of the tolerance off, the one with " + std::to_string(fine) + " steps " +
+                                detail::certificate_number(at_fine) +
+                                " off; the runs agree with each other more closely than with the solution (an error the "
+                                "method makes the same way at every step). Check the method and the model."));
+                    }
+                    c.level = evidence_level::reference_verified;
+                    if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
+                } else if (truths.non_finite()) {
+                    return finish(detail::refuse_non_finite_reference(c, truths.why()));
+                } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
+                    return finish(*refused);
+                }
+            }
+            return finish(c);
+        }
+        if (low_order) {
+            const std::size_t finest = L.level.back();
+            const std::size_t budget = opt.max_evaluations - std::min(opt.max_evaluations, spent());
+            auto where = detail::locate_non_smooth(p, m, finest, G, tol, budget);
+            stability_evaluations += where.evaluations;
+            const std::string seen = "the observed order settled at " + L.readings_text(3) + ", below the declared " +
+                                     std::to_string(p_declared);
+            if (!where.windows.empty())
+                return finish(detail::refuse(
+                    c, refusal::non_smooth,
+                    seen + ". The error is made in " + detail::windows_text(where) + ": the right-hand side is likely not "
+                    "smooth there (" + (std::isfinite(where.smooth_ratio)
+                        ? "elsewhere a step makes " + detail::formatted_number(where.smooth_ratio, "%.3g") +
+                              " times the local error of the two half steps covering it, about 2^" + std::to_string(p_declared) +
+                              " as on a smooth model; there much less, as across a jump or a kink"
+                        : "a step there makes only that ratio times the local error of the two half steps covering "
+                          "it, where a smooth model gives 2^" + std::to_string(p_declared) + "; elsewhere the local error "
+                          "is below a thousandth of it") +
+                    "). If the model switches at a known "
+                    "time there, declare it (problem.with_breakpoints({t})): runs then land on it and step each side on its "
+                    "own; otherwise smooth the model there."));
+            return finish(detail::refuse(c, refusal::order_below_declared,
+                                         seen + ", and no window of the run stands out where the local error fails to shrink as "
+                                         "h^(p+1) (" + (where.note.empty() ? "median local error ratio " +
+                                         detail::formatted_number(where.smooth_ratio, "%.3g") + " of 2^" + std::to_string(p_declared)
+                                         : where.note) + "): the order is low everywhere. Check the method's declared "
+                                         "order, and whether the right-hand side is smooth in the state (an absolute value, a "
+                                         "min or max, a table lookup)."));
+        }
         bool any_finite = false;
-        for (double d : diff) any_finite = any_finite || std::isfinite(d);
-        if (!any_finite)
+        for (double d : L.diff) any_finite = any_finite || std::isfinite(d);
+        if (!any_finite && !L.failed.empty()) {
+            const auto& last = L.failed.back();
             return finish(detail::refuse(c, refusal::non_finite,
-                                         "every run from " + std::to_string(level.front()) + " to " + std::to_string(level.back()) +
-                                             " steps produced NaN or infinity; check the right-hand side and the initial state."));
-        return finish(detail::refuse(c, refusal::outside_asymptotic_range,
-                                     "the observed order never came within " + detail::certificate_number(opt.order_tolerance) +
-                                         " of the declared " + std::to_string(p_declared) + " on " + std::to_string(level.front()) +
-                                         " .. " + std::to_string(level.back()) + " steps; check the declared order, or the "
-                                         "smoothness of the right-hand side."));
+                                         "every run from " + std::to_string(L.level.front()) + " to " + std::to_string(L.level.back()) +
+                                             " steps became NaN or infinite (" + detail::failure_times_text(L.failed) +
+                                             "). The finest: " + last.message +
+                                             (last.stability.empty() ? std::string() : " (" + last.stability + ")")));
+        }
+        if (stalled) {
+            const std::size_t k = L.level.size() - 1;
+            return finish(detail::refuse(c, refusal::order_not_settled,
+                                         "the runs stopped converging above the round-off level: successive runs differ by " +
+                                             detail::certificate_number(L.diff[k - 4]) + " of the tolerance at " +
+                                             std::to_string(L.level[k - 4]) + " steps and still by " +
+                                             detail::certificate_number(L.diff[k]) + " at " + std::to_string(L.level[k]) +
+                                             " steps (round-off level " + detail::certificate_number(runs.round_off_floor_units(L.level[k])) +
+                                             "); the observed order wanders: " + L.readings_text() +
+                                             ". Something other than the step sets the error: check that the method lands "
+                                             "exactly on t1 and that its step is the one it is given, and the smoothness of the "
+                                             "right-hand side."));
+        }
+        return finish(detail::refuse(c, refusal::order_not_settled,
+                                     "the observed order never settled near the declared " + std::to_string(p_declared) +
+                                         " (within " + detail::certificate_number(opt.order_tolerance) + "), above it, or below it: " +
+                                         L.readings_text() + "; the search ended after " + std::to_string(L.level.size()) +
+                                         " levels (" + std::to_string(L.level.front()) + " .. " + std::to_string(L.level.back()) +
+                                         " steps, " + std::to_string(spent()) + " evaluations). Check the declared order and the "
+                                         "smoothness of the right-hand side, or raise max_levels."));
     }
 
     // Confirm N*: its own Richardson band, its stability, and the truth when asked.
+    c.evidence = evidence;
     const std::size_t k = *consistent_at;
-    const std::vector<std::size_t> partners(level.begin() + static_cast<std::ptrdiff_t>(k - 2),
-                                            level.begin() + static_cast<std::ptrdiff_t>(k + 1));
-    detail::truth_once<P> truths(p, G, tol);
+    const std::vector<std::size_t> partners(L.level.begin() + static_cast<std::ptrdiff_t>(k - 2),
+                                            L.level.begin() + static_cast<std::ptrdiff_t>(k + 1));
+    const std::string order_words =
+        evidence == order_evidence::above_declared
+            ? "order " + std::to_string(p_declared) + " (the declared: the observed " + detail::certificate_number(p_seen) + " on " +
+                  std::to_string(L.level[k - 2]) + "/" + std::to_string(L.level[k - 1]) + "/" + std::to_string(L.level[k]) +
+                  " steps stays above it, so the error falls faster than the estimate assumes)"
+            : "order " + detail::certificate_number(p_used) + " (observed " + detail::certificate_number(p_seen) + " on " +
+                  std::to_string(L.level[k - 2]) + "/" + std::to_string(L.level[k - 1]) + "/" + std::to_string(L.level[k]) + " steps)";
     std::string notes;
+    std::vector<std::pair<std::size_t, double>> misses;  // runs that failed against the reference, and by how much
     try {
         for (int attempt = 0; attempt < 12; ++attempt) {
             const std::size_t partner = detail::richardson_partner(n_star, partners);
             double band = std::numeric_limits<double>::infinity();
             try {
-                band = detail::richardson_band(runs.difference(n_star, partner), n_star, partner, p_used, opt.safety_factor);
+                band = detail::richardson_band(runs.difference(n_star, partner), n_star, partner, p_used, safety);
             } catch (const non_finite_value&) {
             }
             if (!(band <= opt.target)) {
@@ -412,20 +460,44 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             }
             c.steps = n_star;
             c.step = length / static_cast<double>(n_star);
-            c.estimated_error = band / opt.safety_factor;
-            c.safety_factor = opt.safety_factor;
+            c.estimated_error = band / safety;
+            c.safety_factor = safety;
             c.error_band = band;
-            c.basis = "Richardson: runs with " + std::to_string(n_star) + " and " + std::to_string(partner) +
-                      " steps, order " + detail::certificate_number(p_used) + " (observed " + detail::certificate_number(p_seen) +
-                      " on " + std::to_string(level[k - 2]) + "/" + std::to_string(level[k - 1]) + "/" +
-                      std::to_string(level[k]) + " steps), safety factor " + detail::certificate_number(opt.safety_factor) +
-                      (notes.empty() ? std::string() : "; " + notes);
+            c.basis = "Richardson: runs with " + std::to_string(n_star) + " and " + std::to_string(partner) + " steps, " + order_words +
+                      ", safety factor " + detail::certificate_number(safety) + (notes.empty() ? std::string() : "; " + notes);
             c.level = evidence_level::estimated;
-            detail::coarsen_by_difference(p, m, runs, c, opt, stability_evaluations);
+            const double fine_estimate = c.estimated_error, fine_band = c.error_band;
+            const std::string fine_basis = c.basis;
+            detail::coarsen_by_difference(p, m, runs, c, opt, stability_evaluations, L.coarser_blew_up_unstable(n_star));
+            detail::toward_stability_limit(p, m, runs, c, n_star, fine_estimate, fine_band, fine_basis, opt, stability_evaluations);
             if (opt.verify_with_reference) {
                 if (const auto* truth = truths.get(c)) {
                     c.reference_error = runs.error_against(n_star, *truth);
                     if (!(c.reference_error <= 1.0)) {
+                        if (const auto z = runs.value_within_its_error(n_star, [&](std::size_t j) -> const auto& { return (*truth)[j - 1]; }))
+                            return finish(detail::refuse_unscaled(c, *z, "the reference", " in the run with " + std::to_string(n_star) + " steps"));
+                        // What the reference says about the runs that miss it: down at rounding, or
+                        // an error that does not fall with the step (the estimate then means nothing).
+                        const double floor_units = runs.round_off_floor_units(n_star);
+                        if (2.0 * floor_units >= c.reference_error)
+                            return finish(detail::refuse(
+                                c, refusal::below_round_off_floor,
+                                "the run with " + std::to_string(n_star) + " steps is " + detail::certificate_number(c.reference_error) +
+                                    " of the tolerance off the reference, and its round-off level is " +
+                                    detail::certificate_number(floor_units) + " of the tolerance (" +
+                                    detail::certificate_number(opt.round_off_factor) +
+                                    " sqrt(N) eps |y|): the error left is rounding, which more steps only add to. Loosen the "
+                                    "tolerance, or run a multiprecision state."));
+                        if (!misses.empty() && c.reference_error >= 0.5 * misses.back().second)
+                            return finish(detail::refuse(
+                                c, refusal::order_not_settled,
+                                "the runs stop converging to the reference: the run with " + std::to_string(misses.back().first) +
+                                    " steps is " + detail::certificate_number(misses.back().second) + " of the tolerance off it, the one with " +
+                                    std::to_string(n_star) + " steps still " + detail::certificate_number(c.reference_error) +
+                                    ", though the coarser runs showed the order (" + L.readings_text(3) +
+                                    "). Something other than the step sets the error: check that the method lands exactly on "
+                                    "t1 and steps with the step it is given, and the model's smoothness."));
+                        misses.emplace_back(n_star, c.reference_error);
                         notes += "N = " + std::to_string(n_star) + " failed against the reference (" +
                                  detail::certificate_number(c.reference_error) + "); ";
                         const double grow = std::isfinite(c.reference_error)
@@ -435,8 +507,21 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                         c.level = evidence_level::not_certified;
                         continue;
                     }
+                    if (c.steps != n_star) c.reference_error = runs.error_against(c.steps, *truth);
+                    if (!(c.reference_error <= 1.0)) {
+                        // The coarser run the estimate allowed fails against the reference: keep N*.
+                        c.steps = n_star;
+                        c.step = length / static_cast<double>(n_star);
+                        c.estimated_error = fine_estimate;
+                        c.error_band = fine_band;
+                        c.basis = fine_basis;
+                        c.stability = detail::stability_of_run(p, m, runs, n_star, opt, stability_evaluations);
+                        c.reference_error = runs.error_against(n_star, *truth);
+                    }
                     c.level = evidence_level::reference_verified;
                     if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
+                } else if (truths.non_finite()) {
+                    return finish(detail::refuse_non_finite_reference(c, truths.why()));
                 } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
                     return finish(*refused);
                 }
@@ -444,11 +529,13 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             return finish(c);
         }
     } catch (const budget_exhausted& e) {
-        return finish(detail::refuse(c, refusal::budget_exhausted, e.what()));
+        return budget_refusal(e);
     }
-    return finish(detail::refuse(c, refusal::budget_exhausted,
+    return finish(detail::refuse(c, refusal::order_not_settled,
                                  "no step passed the confirmation in 12 attempts (" + notes +
-                                     "); the estimates disagree with the runs: check the declared order."));
+                                     "); the Richardson predictions keep missing: the error does not follow the order seen on "
+                                     "the coarser runs (" + L.readings_text(3) + "). Check the declared order and the smoothness "
+                                     "of the right-hand side."));
 }
 
 } // namespace stepcert

@@ -26,6 +26,12 @@ struct certify_options {
     /// Grid Convergence Index safety factor on the Richardson estimate (Roache; Celik et al. 2008
     /// use 1.25 with three levels and an observed order).
     double safety_factor = 1.25;
+    /// The safety factor where the declared order is not confirmed by the runs: the observed order
+    /// stays above it (the estimate then uses the declared order, conservative when the error falls
+    /// faster) or the runs agree to rounding. P. J. Roache, Verification and Validation in
+    /// Computational Science and Engineering (1998) recommends 3 when the order is not confirmed
+    /// (from memory).
+    double unconfirmed_safety_factor = 3.0;
     /// The observed order counts as the declared one within this distance (asymptotic range).
     double order_tolerance = 0.35;
     /// A step is certified when safety factor x estimate <= target (< 1 leaves room for the
@@ -45,6 +51,9 @@ struct certify_options {
             throw invalid_input(who + "the evaluation budget is zero; give max_evaluations > 0 (e.g. 20'000'000).");
         if (!(safety_factor >= 1.0) || !std::isfinite(safety_factor))
             throw invalid_input(who + "safety_factor must be finite and >= 1 (1.25 is usual with three levels).");
+        if (!(unconfirmed_safety_factor >= safety_factor) || !std::isfinite(unconfirmed_safety_factor))
+            throw invalid_input(who + "unconfirmed_safety_factor must be finite and >= safety_factor (3 is usual where the "
+                                "order is not confirmed).");
         if (!(order_tolerance > 0.0) || !std::isfinite(order_tolerance))
             throw invalid_input(who + "order_tolerance must be finite and > 0.");
         if (!(target > 0.0 && target <= 1.0)) throw invalid_input(who + "target must be in (0, 1].");

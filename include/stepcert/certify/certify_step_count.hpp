@@ -14,14 +14,18 @@
 #include <string>
 
 #include "stepcert/certify/certify_fixed_step.hpp"
+#include "stepcert/certify/detail/search_ladder.hpp"
 
 namespace stepcert {
 
 namespace detail {
 
 /// Richardson's evidence for the run with n steps from the runs with 2n and 4n: fills the
-/// certificate's observed order, estimate, band and basis and returns "" when it holds; else
-/// sets c.reason and returns why it does not (non-finite runs, round-off, outside the range).
+/// certificate's observed order, estimate, band, evidence and basis and returns "" when it holds;
+/// else sets c.reason and returns why it does not (non-finite runs, round-off, outside the range).
+/// As certify does: the declared order confirmed (safety factor 1.25), the observed order above
+/// it (the declared order, safety factor 3), or the runs agreeing to rounding (their difference
+/// plus the round-off level, safety factor 3) where that is well inside the tolerance.
 template <class P, class M>
 std::string judge_by_richardson(certify_runs<P, M>& runs, std::size_t n, int p_declared, const certify_options& opt,
                                 step_certificate& c) {
@@ -37,26 +41,67 @@ std::string judge_by_richardson(certify_runs<P, M>& runs, std::size_t n, int p_d
         c.reason = refusal::non_finite;
         return "the runs with N, 2N or 4N steps are not finite.";
     }
-    if (d2 <= runs.round_off_floor_units(4 * n) || d1 <= runs.round_off_floor_units(2 * n)) {
-        c.reason = refusal::below_round_off_floor;
-        return "the runs with N, 2N and 4N steps differ by no more than their rounding: the error is not measurable in "
-               "double at this tolerance; loosen it, or run a multiprecision state.";
+    const double floor2 = runs.round_off_floor_units(2 * n), floor4 = runs.round_off_floor_units(4 * n);
+    if (d2 <= floor4 || d1 <= floor2) {
+        // The runs agree to rounding (2N and 4N at least): the run with n steps is off by about d1
+        // plus the rounding level.
+        const double level = std::max(floor2, floor4);
+        const double band = opt.unconfirmed_safety_factor * (d1 + level);
+        if (!(band <= opt.target)) {
+            if (d1 <= floor2) {
+                c.reason = refusal::below_round_off_floor;
+                return "the runs with N, 2N and 4N steps agree to rounding (" + certificate_number(d1) + " and " +
+                       certificate_number(d2) + " of the tolerance, round-off level " + certificate_number(level) +
+                       "), so no run resolves the error below about " + certificate_number(band) +
+                       " of the tolerance; loosen it, or run a multiprecision state.";
+            }
+            c.reason = refusal::tolerance_not_met;
+            return "the run with N steps differs by " + certificate_number(d1) + " of the tolerance from the run with 2N steps, "
+                   "which agrees with the one with 4N to rounding: with safety factor " +
+                   certificate_number(opt.unconfirmed_safety_factor) + " the band " + certificate_number(band) +
+                   " exceeds the tolerance; take more steps.";
+        }
+        c.estimated_error = d1 + level;
+        c.safety_factor = opt.unconfirmed_safety_factor;
+        c.error_band = band;
+        c.evidence = order_evidence::round_off_plateau;
+        c.basis = "round-off plateau: the runs with " + std::to_string(n) + ", " + std::to_string(2 * n) + " and " +
+                  std::to_string(4 * n) + " steps differ by " + certificate_number(d1) + " and " + certificate_number(d2) +
+                  ", the finer pair within the round-off level " + certificate_number(level) +
+                  " (tolerance units): estimated at the first difference plus that level, safety factor " +
+                  certificate_number(opt.unconfirmed_safety_factor);
+        return "";
     }
     const double observed = std::log2(d1 / d2);
     c.observed_order = observed;
-    if (!(std::abs(observed - p_declared) <= opt.order_tolerance)) {
+    const bool confirmed = std::abs(observed - p_declared) <= opt.order_tolerance;
+    bool above = false;
+    if (!confirmed && observed > p_declared + opt.order_tolerance) {
+        // One reading above is no evidence yet (readings approach the declared order from above
+        // before the asymptotic range): the run with 8N steps must show it steady, or be down at
+        // rounding (the readings then stayed above across the whole usable range).
+        try {
+            const double d3 = runs.difference(4 * n, 8 * n);
+            above = d3 <= runs.round_off_floor_units(8 * n) || steady_above(observed, std::log2(d2 / d3), p_declared, opt.order_tolerance);
+        } catch (const non_finite_value&) {
+        }
+    }
+    if (!confirmed && !above) {
         c.reason = refusal::outside_asymptotic_range;
         return "the order observed on N, 2N, 4N steps is " + certificate_number(observed) + ", not within " +
                certificate_number(opt.order_tolerance) + " of the declared " + std::to_string(p_declared) +
-               ": the step is outside the asymptotic range, so Richardson's estimate does not hold; take more steps.";
+               " nor above it: the step is outside the asymptotic range, so Richardson's estimate does not hold; take more steps.";
     }
-    const double p_used = std::min(observed, static_cast<double>(p_declared));
-    c.error_band = richardson_band(d1, n, 2 * n, p_used, opt.safety_factor);
-    c.estimated_error = c.error_band / opt.safety_factor;
-    c.safety_factor = opt.safety_factor;
+    const double p_used = confirmed ? std::min(observed, static_cast<double>(p_declared)) : p_declared;
+    const double safety = confirmed ? opt.safety_factor : opt.unconfirmed_safety_factor;
+    c.evidence = confirmed ? order_evidence::declared_confirmed : order_evidence::above_declared;
+    c.error_band = richardson_band(d1, n, 2 * n, p_used, safety);
+    c.estimated_error = c.error_band / safety;
+    c.safety_factor = safety;
     c.basis = "Richardson: runs with " + std::to_string(n) + ", " + std::to_string(2 * n) + " and " + std::to_string(4 * n) +
               " steps, order " + certificate_number(p_used) + " (observed " + certificate_number(observed) +
-              "), safety factor " + certificate_number(opt.safety_factor);
+              (confirmed ? std::string(")") : std::string(", above the declared: the declared order is used)")) +
+              ", safety factor " + certificate_number(safety);
     return "";
 }
 
@@ -85,7 +130,8 @@ std::string judge_by_finer_run(certify_runs<P, M>& runs, std::size_t n, int p_de
         }
         c.reason = refusal::none;
         c.observed_order = f.observed_order;
-        c.safety_factor = opt.safety_factor;
+        c.safety_factor = f.safety_factor;
+        c.evidence = f.evidence;
         judge_from_finer_run(c, d, m, f.estimated_error, f.error_band, f.basis);
         return "";
     }
@@ -123,7 +169,15 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
             // Stability first: an unstable step's errors are no evidence of anything.
             runs.at(n);
         } catch (const non_finite_value& e) {
-            return finish(detail::refuse(c, refusal::non_finite, e.what()));
+            const auto fr = detail::read_failure(p, m, n, e, opt, stability_evaluations);
+            if (fr.what == detail::failure_reading::kind::instability)
+                return finish(detail::refuse(c, refusal::unstable,
+                                             "the run blew up from an unstable step: " + fr.stability + ". " + fr.message +
+                                                 (std::isfinite(fr.step_limit) ? " The stable step there is at most " +
+                                                      detail::certificate_number(fr.step_limit) + ": take at least " +
+                                                      std::to_string(static_cast<std::size_t>(std::ceil(length / fr.step_limit))) + " steps."
+                                                                               : std::string())));
+            return finish(detail::refuse(c, refusal::non_finite, fr.message));
         }
         c.stability = detail::stability_of_run(p, m, runs, n, opt, stability_evaluations);
         if (c.stability.checked && !c.stability.stable)
@@ -136,6 +190,7 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         // With the truth at hand it decides; Richardson is then only reported (when it holds).
         detail::truth_once<P> truths(p, G, tol);
         const auto* truth = opt.verify_with_reference ? truths.get(c) : nullptr;
+        if (truths.non_finite()) return finish(detail::refuse_non_finite_reference(c, truths.why()));
         if (truth) {
             c.reference_error = runs.error_against(n, *truth);
             if (!(c.reference_error <= 1.0))
@@ -160,10 +215,12 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
         if (c.reason == refusal::outside_asymptotic_range)
             richardson_problem = detail::judge_by_finer_run(runs, n, p_declared, opt, c, richardson_problem);
         if (!richardson_problem.empty()) return finish(detail::refuse(c, c.reason, richardson_problem));
-        if (!(c.error_band <= 1.0))
+        if (!(c.error_band <= 1.0)) {
+            c.evidence = order_evidence::none;
             return finish(detail::refuse(c, refusal::tolerance_not_met,
                                          "the estimated error band " + detail::certificate_number(c.error_band) +
                                              " exceeds the tolerance: this step does not meet it; take more steps."));
+        }
         c.steps = n;
         c.step = length / static_cast<double>(n);
         c.level = evidence_level::estimated;

@@ -9,6 +9,7 @@
 #include <cmath>
 #include <string>
 #include <utility>
+#include <vector>
 
 #include "stepcert/certify/certificate.hpp"
 #include "stepcert/certify/certify_adaptive.hpp"
@@ -40,6 +41,9 @@ std::string certificate_identity_differs(const step_certificate& stored, const P
     compare(stored.t0 == static_cast<double>(p.t0()) && stored.t1 == static_cast<double>(p.t1()), "the interval changed");
     compare(stored.method == m.name(), "method '" + stored.method + "' is now '" + std::string(m.name()) + "'");
     compare(stored.declared_order == m.order(), "the declared order changed");
+    std::vector<double> breaks;
+    for (const auto& b : breakpoints_of(p)) breaks.push_back(static_cast<double>(b));
+    compare(stored.breakpoints == breaks, "the breakpoints changed");
     return differs;
 }
 

@@ -80,9 +80,12 @@ private:
         return std::sqrt((acc[0] + acc[1] + acc[2] + acc[3]) / static_cast<double>(n)) / atol;
     }
 
-    /// |d| / (atol + rtol |r|), or +inf when d or r is not finite.
+    /// |d| / (atol + rtol |r|), or +inf when d or r is not finite. An exact agreement is 0 even
+    /// where the scale is 0 (a component at rest under a purely relative tolerance); any other
+    /// difference there is +inf: a relative tolerance has nothing to be relative to.
     double scaled(double d, double r) const {
         if (!std::isfinite(d) || !std::isfinite(r)) return std::numeric_limits<double>::infinity();
+        if (d == 0.0) return 0.0;
         return std::abs(d) / (atol + rtol * std::abs(r));
     }
 

@@ -52,6 +52,7 @@ std::vector<global_error_estimate> richardson_global_errors(const P& p, const M&
     using Tr = std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>;
     const std::string who = "stepcert::richardson_global_errors: ";
     detail::check_richardson_options(opt, who);
+    detail::refuse_breakpoints(p, "stepcert::richardson_global_errors");
     const std::size_t needed = opt.observe_order ? 3 : 2;
     if (steps.size() < needed)
         throw invalid_input(who + "the ladder has " + std::to_string(steps.size()) + " level(s); Richardson's estimate needs " +

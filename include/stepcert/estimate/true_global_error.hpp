@@ -26,6 +26,7 @@ global_error_estimate true_global_error(const P& p, const M& m, std::size_t n, c
     using Tr = std::conditional_t<std::is_void_v<T>, typename P::scalar_type, T>;
     const std::string who = "stepcert::true_global_error: ";
     opt.norm.validate();
+    detail::refuse_breakpoints(p, "stepcert::true_global_error");
     if (n == 0 || opt.grid_points == 0 || n % opt.grid_points != 0)
         throw invalid_input(who + "give n >= 1 steps and a grid of points that divides n.");
     global_error_estimate out;

@@ -5,8 +5,38 @@
 
 #include <boost/numeric/odeint/algebra/algebra_dispatcher.hpp>
 #include <boost/numeric/odeint/algebra/operations_dispatcher.hpp>
+#include <boost/numeric/odeint/util/is_resizeable.hpp>
 
 #include "stepcert/core/state.hpp"
+
+namespace stepcert::detail {
+
+/// True when the state's size is fixed by its type (state_traits<S>::fixed_size, if declared).
+template <class S>
+constexpr bool fixed_size_state() {
+    if constexpr (requires { state_traits<S>::fixed_size; })
+        return static_cast<bool>(state_traits<S>::fixed_size);
+    else
+        return false;
+}
+
+/// odeint's algebra and operations for S. odeint sizes a stepper's scratch states on the first
+/// step only if is_resizeable<S> says so; a state of run-time size it does not know as resizable
+/// would be stepped with empty scratch states, writing out of bounds. Refused here, once.
+template <class S>
+struct odeint_support {
+    static_assert(fixed_size_state<S>() || boost::numeric::odeint::is_resizeable<S>::value,
+                  "stepcert: odeint does not resize this state type (boost::numeric::odeint::is_resizeable<S> is "
+                  "false), so its steppers' scratch states would stay empty and a step would write out of bounds. "
+                  "For Eigen vectors include <stepcert/core/state_eigen.hpp>, for uBLAS vectors "
+                  "<stepcert/core/state_ublas.hpp>; for your own type specialize is_resizeable (odeint's "
+                  "'adapt your own state types'), or declare state_traits<S>::fixed_size = true if its size "
+                  "never changes.");
+    using algebra_type = typename boost::numeric::odeint::algebra_dispatcher<S>::algebra_type;
+    using operations_type = typename boost::numeric::odeint::operations_dispatcher<S>::operations_type;
+};
+
+} // namespace stepcert::detail
 
 /// odeint stepper types for a stepcert state S (value and time type scalar_of<S>). Each alias
 /// takes an optional odeint Algebra and Operations, so a method can be rebuilt on another
@@ -14,9 +44,9 @@
 namespace stepcert::odeint_stepper {
 
 template <class S>
-using default_algebra = typename boost::numeric::odeint::algebra_dispatcher<S>::algebra_type;
+using default_algebra = typename detail::odeint_support<S>::algebra_type;
 
 template <class S>
-using default_operations = typename boost::numeric::odeint::operations_dispatcher<S>::operations_type;
+using default_operations = typename detail::odeint_support<S>::operations_type;
 
 } // namespace stepcert::odeint_stepper

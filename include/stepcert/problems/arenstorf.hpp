@@ -7,13 +7,15 @@
 //   y1(0) = 0.994, y1'(0) = 0, y2(0) = 0, y2'(0) = v0, and after one period T the orbit is back at y(0).
 // Published: v0 = -2.00158510637908252240537862224, T = 17.0652165601579625588917206249
 // (E. Hairer, S. P. Nørsett, G. Wanner, Solving Ordinary Differential Equations I, 2nd ed.,
-// Springer 1993, §II.0). With these constants the orbit closes only to about 4.6e-27 (max norm),
-// however exactly it is integrated.
+// Springer 1993, §II.0). With these constants the orbit closes only to 4.564e-27 (max norm, in
+// y2'; measured as below), however exactly it is integrated.
 // Recomputed (derived by us: 100-digit MPFR, Newton shooting on the two half-period symmetry
 // conditions, Bulirsch-Stoer at tolerance 1e-45; given here to 40 significant digits):
-// v0 = -2.001585106379082522405378622238858647377, T = 17.06521656015796255889172062483835451737;
-// they close the orbit far better: 1.7e-32 with Bulirsch-Stoer at tolerance 1e-33 in
-// cpp_bin_float_50 (measured; the integration, not the constants, limits that figure).
+// v0 = -2.001585106379082522405378622238858647377, T = 17.06521656015796255889172062483835451737.
+// As given they close the orbit to 3.6e-37 (max norm, in y1'; measured with 100-digit MPFR
+// Bulirsch-Stoer at tolerances 1e-45, 1e-50 and 1e-55, which agree to 7e-45): T rounded to 40
+// digits, about 1.1e-39 from the true period, times |y'(0)| (y1'' = -315.5) accounts for it.
+// A 50-digit integration shows less: 1.7e-32 at tolerance 1e-33, 4.6e-35 at 1e-36 (its own error).
 // There is no closed form: the only exact value is the return to y(0) at t = T, offered by
 // arenstorf_period_end_state(), not as an exact solution.
 #include <array>
@@ -28,8 +30,8 @@ namespace stepcert::problems {
 
 /// Which initial velocity and period to use.
 enum class arenstorf_constants {
-    published,   ///< Hairer, Nørsett, Wanner (1993): closes to about 5e-27
-    recomputed,  ///< our 40-digit recomputation (derived): closes far below 1e-30
+    published,   ///< Hairer, Nørsett, Wanner (1993): closes to 4.6e-27
+    recomputed,  ///< our 40-digit recomputation (derived): closes to 3.6e-37
 };
 
 /// μ = 0.012277471 = 12277471 / 10⁹, correctly rounded in T.
@@ -58,7 +60,7 @@ std::array<T, 4> arenstorf_initial_state(arenstorf_constants which = arenstorf_c
 }
 
 /// The exact state at t = arenstorf_period(which): the initial state again. The published
-/// constants make this true only to about 5e-27, the recomputed ones to far below 1e-30.
+/// constants make this true only to 4.6e-27, the recomputed ones to 3.6e-37 (max norm).
 template <class T = double>
 std::array<T, 4> arenstorf_period_end_state(arenstorf_constants which = arenstorf_constants::published) {
     return arenstorf_initial_state<T>(which);

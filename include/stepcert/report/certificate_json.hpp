@@ -1,6 +1,6 @@
 #pragma once
 // JSON export and import of a step certificate (optional: needs nlohmann_json). The document
-// ("format": "stepcert.step_certificate", "format_version": 1, "caution") holds every field of
+// ("format": "stepcert.step_certificate", "format_version": 2, "caution") holds every field of
 // step_certificate under the field's own name, the tolerance and the stability record as nested
 // objects, the enums as their to_string text; layout in docs/certificate-format.md. NaN is null,
 // +/-infinity "inf"/"-inf" (report/detail/json_numbers.hpp), so every double reads back exactly.
@@ -21,7 +21,10 @@
 namespace stepcert {
 
 inline constexpr const char* certificate_json_format = "stepcert.step_certificate";
-inline constexpr int certificate_json_version = 1;
+inline constexpr int certificate_json_version = 2;
+/// Version 1 documents (before evidence, limited_by and breakpoints) are still read: those
+/// fields take "none", "none" and no breakpoints.
+inline constexpr int certificate_json_oldest_version = 1;
 
 namespace detail {
 
@@ -46,7 +49,31 @@ constexpr bool is_certificate_enum(refusal r) {
     case refusal::non_finite:
     case refusal::budget_exhausted:
     case refusal::reference_unavailable:
-    case refusal::tolerance_not_met: return true;
+    case refusal::tolerance_not_met:
+    case refusal::unbounded_growth:
+    case refusal::non_smooth:
+    case refusal::order_below_declared:
+    case refusal::order_not_settled:
+    case refusal::relative_tolerance_at_zero: return true;
+    }
+    return false;
+}
+
+constexpr bool is_certificate_enum(order_evidence e) {
+    switch (e) {
+    case order_evidence::none:
+    case order_evidence::declared_confirmed:
+    case order_evidence::above_declared:
+    case order_evidence::round_off_plateau: return true;
+    }
+    return false;
+}
+
+constexpr bool is_certificate_enum(step_limited_by l) {
+    switch (l) {
+    case step_limited_by::none:
+    case step_limited_by::accuracy:
+    case step_limited_by::stability: return true;
     }
     return false;
 }
@@ -124,6 +151,8 @@ inline nlohmann::json to_json(const step_certificate& c) {
     j["tolerance"] = detail::norm_to_json(c.tolerance);
     j["measured_at"] = std::string(to_string(c.measured_at));
     j["output_times"] = c.output_times;
+    j["breakpoints"] = nlohmann::json::array();
+    for (double b : c.breakpoints) j["breakpoints"].push_back(json_number(b));
     j["level"] = std::string(to_string(c.level));
     j["reason"] = std::string(to_string(c.reason));
     j["reason_detail"] = c.reason_detail;
@@ -131,6 +160,8 @@ inline nlohmann::json to_json(const step_certificate& c) {
     j["step"] = json_number(c.step);
     j["controller_atol"] = json_number(c.controller_atol);
     j["controller_rtol"] = json_number(c.controller_rtol);
+    j["evidence"] = std::string(to_string(c.evidence));
+    j["limited_by"] = std::string(to_string(c.limited_by));
     j["estimated_error"] = json_number(c.estimated_error);
     j["safety_factor"] = json_number(c.safety_factor);
     j["error_band"] = json_number(c.error_band);
@@ -148,7 +179,8 @@ inline nlohmann::json to_json(const step_certificate& c) {
 /// Reads a certificate written by to_json; invalid_input on another format or version, or a
 /// missing or mistyped field (the message names it). "caution" is not read: it is fixed text.
 inline step_certificate step_certificate_from_json(const nlohmann::json& j) {
-    detail::check_json_document(j, certificate_json_format, certificate_json_version, "stepcert::to_json(step_certificate)");
+    const int version = detail::check_json_document(j, certificate_json_format, certificate_json_oldest_version,
+                                                    certificate_json_version, "stepcert::to_json(step_certificate)");
     return detail::read_json_document("step-certificate", [&] {
         using detail::count_from_json;
         using detail::number_from_json;
@@ -164,6 +196,7 @@ inline step_certificate step_certificate_from_json(const nlohmann::json& j) {
         c.tolerance = detail::norm_from_json(j, "tolerance");
         c.measured_at = detail::certificate_enum_from_json<error_measured_at>(j, "measured_at");
         c.output_times = count_from_json(j, "output_times");
+        if (version >= 2) c.breakpoints = detail::numbers_from_json(j, "breakpoints");
         c.level = detail::certificate_enum_from_json<evidence_level>(j, "level");
         c.reason = detail::certificate_enum_from_json<refusal>(j, "reason");
         c.reason_detail = string_from_json(j, "reason_detail");
@@ -171,6 +204,10 @@ inline step_certificate step_certificate_from_json(const nlohmann::json& j) {
         c.step = number_from_json(j, "step");
         c.controller_atol = number_from_json(j, "controller_atol");
         c.controller_rtol = number_from_json(j, "controller_rtol");
+        if (version >= 2) {
+            c.evidence = detail::certificate_enum_from_json<order_evidence>(j, "evidence");
+            c.limited_by = detail::certificate_enum_from_json<step_limited_by>(j, "limited_by");
+        }
         c.estimated_error = number_from_json(j, "estimated_error");
         c.safety_factor = number_from_json(j, "safety_factor");
         c.error_band = number_from_json(j, "error_band");

@@ -30,9 +30,25 @@ inline std::string_view evidence_in_words(evidence_level l) {
     case evidence_level::reference_verified:
         return "a run at the certified step, compared with a multiprecision reference, met the tolerance at the output times checked";
     case evidence_level::estimated:
-        return "a Richardson estimate times a safety factor, in a verified asymptotic range, meets the tolerance";
+        return "an estimate from successive runs times a safety factor meets the tolerance (its case below)";
     case evidence_level::bounded: return "a rigorous bound from user-given constants meets the tolerance";
     case evidence_level::not_certified: return "the evidence supports no step";
+    }
+    return "?";
+}
+
+/// The case an estimate rests on, in words. No default label: -Wswitch flags a case added later.
+inline std::string_view evidence_case_in_words(order_evidence e) {
+    switch (e) {
+    case order_evidence::none: return "none";
+    case order_evidence::declared_confirmed:
+        return "declared order confirmed: three runs show it, Richardson with the observed order (at most the declared)";
+    case order_evidence::above_declared:
+        return "observed order above the declared: Richardson with the declared order (conservative when the error falls "
+               "faster), the safety factor of an unconfirmed order";
+    case order_evidence::round_off_plateau:
+        return "runs agree to round-off: the difference from the plateau's first run plus its rounding, the safety factor "
+               "of an unconfirmed order";
     }
     return "?";
 }
@@ -75,7 +91,14 @@ inline std::vector<std::pair<std::string, std::string>> certificate_rows(const s
     measured += " (";
     measured += std::to_string(c.output_times);
     measured += c.output_times == 1 ? " output time)" : " evenly spaced output times)";
+    if (!c.breakpoints.empty()) measured += ", spread over the segments between breakpoints";
     rows.emplace_back("error measured at", measured);
+    if (!c.breakpoints.empty()) {
+        S breaks = "t = ";
+        for (std::size_t i = 0; i < c.breakpoints.size(); ++i) breaks += (i ? ", " : "") + certificate_number(c.breakpoints[i], "%.10g");
+        breaks += " (the runs land on each, with uniform steps of at most h within each segment)";
+        rows.emplace_back("breakpoints", breaks);
+    }
     rows.emplace_back("error unit", "the tolerance: an error <= 1 meets it");
 
     S evidence(to_string(c.level));
@@ -102,6 +125,11 @@ inline std::vector<std::pair<std::string, std::string>> certificate_rows(const s
     } else {
         rows.emplace_back("certified step", "no step certified");
     }
+    if (c.issued() && c.limited_by != step_limited_by::none)
+        rows.emplace_back("step set by", c.limited_by == step_limited_by::stability
+                                             ? "stability: a larger step leaves the method's stability region (or blew up), "
+                                               "while the accuracy would allow more"
+                                             : "accuracy: a larger step does not meet the tolerance");
     if (!c.issued() || c.reason != refusal::none) {
         S reason(c.reason == refusal::none ? std::string_view("none given") : to_string(c.reason));
         if (!c.reason_detail.empty()) {
@@ -118,6 +146,7 @@ inline std::vector<std::pair<std::string, std::string>> certificate_rows(const s
         estimate += ')';
     }
     rows.emplace_back("estimated error", estimate);
+    if (c.evidence != order_evidence::none) rows.emplace_back("estimate case", S(evidence_case_in_words(c.evidence)));
     rows.emplace_back("safety factor", std::isnan(c.safety_factor) ? S("none") : certificate_number(c.safety_factor, "%.3g"));
     S band = certificate_figure(c.error_band, "none");
     if (!std::isnan(c.error_band)) band += " (safety factor on Richardson's part; the figure judged against the tolerance)";

@@ -127,6 +127,7 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
     using S = rebind_state<typename P::state_type, Tr>;
     opt.validate();
     ladder.validate();
+    if constexpr (fixed) detail::refuse_breakpoints(p, "stepcert::order_study");
 
     const std::size_t L = ladder.levels;
     const double length = static_cast<double>(p.t1()) - static_cast<double>(p.t0());

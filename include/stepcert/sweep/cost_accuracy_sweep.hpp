@@ -59,6 +59,7 @@ public:
     explicit cost_accuracy_sweep(P problem, sweep_options options = {})
         : problem_(std::make_shared<const P>(std::move(problem))), options_(std::move(options)) {
         const std::string who = "stepcert::cost_accuracy_sweep: ";
+        detail::refuse_breakpoints(*problem_, "stepcert::cost_accuracy_sweep");
         if (options_.output_times == 0)
             throw invalid_input(who + "sweep_options::output_times is 0; give at least 1 (1 measures the error at t1 only).");
         if (options_.repeats == 0)

@@ -3,11 +3,14 @@
 // measures it needs: the error of one run against another or against the truth, in tolerance
 // units, over the output grid or at t1 only.
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstddef>
 #include <limits>
 #include <map>
+#include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "stepcert/certify/certify_options.hpp"
@@ -42,16 +45,20 @@ public:
         : p_(p), m_(m), tol_(tol), opt_(opt) {}
 
     /// The run with n steps (n a multiple of the grid), made once. Throws what run_uniform
-    /// throws: budget_exhausted, non_finite_value.
+    /// throws: budget_exhausted, non_finite_value (a failed run's again, with its site).
     const run_type& at(std::size_t n) {
         auto it = runs_.find(n);
         if (it != runs_.end()) return it->second;
-        if (auto f = failed_.find(n); f != failed_.end()) throw non_finite_value(f->second);
+        if (auto f = failed_.find(n); f != failed_.end()) throw f->second;
         run_options ro;
         ro.max_evaluations = opt_.max_evaluations - std::min(opt_.max_evaluations, evaluations_);
-        if (ro.max_evaluations == 0)
-            throw budget_exhausted("stepcert::certify: the evaluation budget is spent before the run with " +
-                                   std::to_string(n) + " steps; raise max_evaluations.");
+        const auto out_of_budget = [&] {
+            return budget_exhausted("stepcert::certify: the evaluation budget of " + std::to_string(opt_.max_evaluations) +
+                                    " (certify_options::max_evaluations) ran out at the run with " + std::to_string(n) +
+                                    " steps, " + std::to_string(evaluations_) +
+                                    " having been spent on the runs before it; raise max_evaluations, or loosen the tolerance.");
+        };
+        if (ro.max_evaluations == 0) throw out_of_budget();
         try {
             auto run = run_uniform<double>(p_, m_, n, n / opt_.output_times, ro);
             evaluations_ += run.stats.evaluations;
@@ -60,11 +67,54 @@ public:
             evaluations_ += failed_steps_ * run.stats.evaluations / n;
             failed_steps_ = 0;
             return runs_.emplace(n, std::move(run)).first->second;
+        } catch (const budget_exhausted&) {
+            evaluations_ = opt_.max_evaluations;
+            throw out_of_budget();
         } catch (const non_finite_value& e) {
-            failed_.emplace(n, e.what());
-            failed_steps_ += n;
+            failed_.emplace(n, e);
+            // Charged what it spent when the run measured it; else as if it had finished, at the
+            // rate of the first run that does (an upper bound).
+            if (e.site() != nullptr)
+                evaluations_ += e.site()->evaluations;
+            else
+                failed_steps_ += n;
             throw;
         }
+    }
+
+    /// The failure of the run with n steps, if it blew up.
+    const non_finite_value* failure(std::size_t n) const {
+        const auto f = failed_.find(n);
+        return f == failed_.end() ? nullptr : &f->second;
+    }
+
+    /// Largest |y_i| over the run's output states, and the time where it is.
+    std::pair<double, double> largest_value(std::size_t n) {
+        const auto& r = at(n);
+        std::pair<double, double> out{0.0, static_cast<double>(r.times.front())};
+        for (std::size_t j = 0; j < r.states.size(); ++j)
+            for (std::size_t i = 0; i < state_size(r.states[j]); ++i)
+                if (std::abs(r.states[j][i]) > out.first) out = {std::abs(r.states[j][i]), static_cast<double>(r.times[j])};
+        return out;
+    }
+
+    /// Where a purely relative tolerance (atol = 0) cannot judge the run with a steps against
+    /// `scale_at(j)` (another run's states, or the truth's) at output j: a component whose value
+    /// there is no larger than its difference (|y_a - y_s| >= |y_s| / 2: zero, or zero up to the
+    /// runs' own error). Returns (component, time, value, difference), or nullopt if none.
+    template <class Scale>
+    std::optional<std::array<double, 4>> value_within_its_error(std::size_t a, const Scale& scale_at) {
+        if (tol_.atol > 0.0) return std::nullopt;
+        const auto& ra = at(a);
+        for (std::size_t j = 1; j < ra.states.size(); ++j) {
+            const state& scale = scale_at(j);
+            for (std::size_t i = 0; i < state_size(scale); ++i) {
+                const double d = std::abs(ra.states[j][i] - scale[i]);
+                if (d > 0.0 && d >= 0.5 * std::abs(scale[i]))
+                    return std::array<double, 4>{static_cast<double>(i), static_cast<double>(ra.times[j]), scale[i], d};
+            }
+        }
+        return std::nullopt;
     }
 
     /// Largest (or final) weighted difference between two runs' states on the grid.
@@ -115,7 +165,7 @@ private:
     weighted_norm tol_;
     certify_options opt_;
     std::map<std::size_t, run_type> runs_;
-    std::map<std::size_t, std::string> failed_;  ///< runs that blew up, by step count: not run twice
+    std::map<std::size_t, non_finite_value> failed_;  ///< runs that blew up, by step count: not run twice
     std::size_t failed_steps_ = 0;               ///< their steps, not yet charged
     std::size_t evaluations_ = 0;
 };

@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "stepcert/certify/certificate.hpp"
+#include "stepcert/core/error.hpp"
 #include "stepcert/core/norm.hpp"
 #include "stepcert/core/state.hpp"
 #include "stepcert/reference/detail/truth_on_grid.hpp"
@@ -42,7 +43,12 @@ public:
     const std::vector<state>* get(step_certificate& c) {
         if (!tried_) {
             tried_ = true;
-            truth_ = truth_on_grid(p_, G_, digits_to_judge(tol_, p_.y0()), why_);
+            try {
+                truth_ = truth_on_grid(p_, G_, digits_to_judge(tol_, p_.y0()), why_);
+            } catch (const non_finite_value& e) {
+                why_ = e.what();
+                non_finite_ = true;
+            }
         }
         if (!truth_) return nullptr;
         c.reference_digits = truth_->digits;
@@ -50,12 +56,15 @@ public:
         return &truth_->states;
     }
     const std::string& why() const { return why_; }
+    /// True when the reference itself met a NaN or infinity (why() says where).
+    bool non_finite() const { return non_finite_; }
 
 private:
     const P& p_;
     std::size_t G_;
     weighted_norm tol_;
     bool tried_ = false;
+    bool non_finite_ = false;
     std::optional<grid_truth<state>> truth_;
     std::string why_;
 };

@@ -30,6 +30,7 @@ template <class P, class M>
 local_error_profile start_local_error_profile(const P& p, const M& m, std::size_t n, const local_error_options& opt,
                                               local_error_estimator estimator, int order, std::string_view who) {
     require_separable_if_needed(p, m, who);
+    refuse_breakpoints(p, std::string(who));
     opt.norm.validate();
     if (n == 0) throw invalid_input(std::string(who) + ": the number of steps must be at least 1.");
     if (order <= 0)

@@ -17,10 +17,8 @@
 
 namespace stepcert::problems {
 
-/// A real floating-point scalar: float, double, long double, or a Boost.Multiprecision float.
-template <class T>
-concept real_scalar = std::numeric_limits<T>::is_specialized && !std::numeric_limits<T>::is_integer &&
-                      !std::numeric_limits<T>::is_exact;
+/// A real floating-point scalar (core/state.hpp): the problems take the states' own definition.
+using stepcert::real_scalar;
 
 /// Where a Jacobian is written: J(i, j) = value (an Eigen matrix, or any two-index callable).
 template <class M>

@@ -16,18 +16,26 @@
 namespace stepcert::detail {
 
 /// Throws invalid_input unless `j` is an object with "format": format and "format_version": version.
-inline void check_json_document(const nlohmann::json& j, const char* format, int version, const char* writer) {
+/// Checks the format tag and that the version is one of oldest .. newest; returns the version.
+inline int check_json_document(const nlohmann::json& j, const char* format, int oldest, int newest, const char* writer) {
+    const std::string versions = oldest == newest ? std::to_string(newest) : std::to_string(oldest) + " to " + std::to_string(newest);
     const std::string what = std::string("stepcert: expected a JSON document with \"format\": \"") + format +
-                             "\" and \"format_version\": " + std::to_string(version) + " (as " + writer + " writes)";
+                             "\" and \"format_version\": " + versions + " (as " + writer + " writes)";
     if (!j.is_object()) throw invalid_input(what + ", got a JSON " + j.type_name() + ".");
     const auto f = j.find("format");
     if (f == j.end() || !f->is_string()) throw invalid_input(what + "; this document has no \"format\" string.");
     if (*f != format) throw invalid_input(what + "; this one has \"format\": \"" + f->get<std::string>() + "\".");
     const auto v = j.find("format_version");
     if (v == j.end() || !v->is_number_integer()) throw invalid_input(what + "; this document has no whole-number \"format_version\".");
-    if (v->get<long long>() != version)
-        throw invalid_input(what + "; this one has format_version " + std::to_string(v->get<long long>()) +
+    const long long version = v->get<long long>();
+    if (version < oldest || version > newest)
+        throw invalid_input(what + "; this one has format_version " + std::to_string(version) +
                             ", which this stepcert does not read: write it again with this version.");
+    return static_cast<int>(version);
+}
+
+inline void check_json_document(const nlohmann::json& j, const char* format, int version, const char* writer) {
+    (void)check_json_document(j, format, version, version, writer);
 }
 
 inline nlohmann::json norm_to_json(const weighted_norm& n) {
