@@ -1,5 +1,5 @@
 #pragma once
-// The Jacobian's action J v at one state, without forming J (needs Eigen only for the small-system
+// The Jacobian's action J v at one state, without forming J (needs Eigen, for the small-system
 // variant): a forward difference of the right-hand side along v,
 //   J v ~ (f(y + e v) - f(y)) / e,  e = sqrt(eps) max(1, |y|_2) / |v|_2,
 // one evaluation per product after f(y) (common practice: the step balances the O(e) truncation
