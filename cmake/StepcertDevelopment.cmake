@@ -1,6 +1,9 @@
 # Settings shared by the project's own tests, examples and benchmarks (not exported).
 find_package(nlohmann_json 3 REQUIRED CONFIG)
 find_package(Eigen3 3.3 REQUIRED CONFIG)
+# Spectra (Debian libspectra-dev, headers on top of Eigen): the Arnoldi iteration of the
+# matrix-free stability check (transport/extreme_eigenvalues.hpp, certify/).
+find_package(Spectra 1.0 REQUIRED CONFIG)
 find_package(benchmark REQUIRED)
 find_package(GTest REQUIRED)
 include(GoogleTest)
@@ -12,7 +15,7 @@ find_library(STEPCERT_GMP_LIB gmp)
 add_library(stepcert_dev INTERFACE)
 # The project's own builds use float128 where the compiler has it (GCC), the cheap check type of
 # reference solutions; with Clang (the sanitizer pass) the tests run without it.
-target_link_libraries(stepcert_dev INTERFACE stepcert::stepcert nlohmann_json::nlohmann_json Eigen3::Eigen)
+target_link_libraries(stepcert_dev INTERFACE stepcert::stepcert nlohmann_json::nlohmann_json Eigen3::Eigen Spectra::Spectra)
 if(TARGET stepcert::float128)
     target_link_libraries(stepcert_dev INTERFACE stepcert::float128)
 endif()

@@ -7,6 +7,21 @@
 // G. Wanner, Solving ODEs II, §IV.2 — from memory). It is linearized stability with the Jacobian
 // frozen at each sample: errors in the decaying modes are damped there, no more (the transient
 // growth a non-normal Jacobian allows is not covered).
+//
+// Which eigenvalues: up to dense_up_to unknowns every eigenvalue of the dense Jacobian (Eigen's
+// EigenSolver: O(n^3) time, 8 n^2 bytes). Beyond, only the extreme ones, estimated matrix-free from
+// Jacobian-vector products (transport/extreme_eigenvalues.hpp): the largest in magnitude, the
+// leftmost and the most oscillatory, a few of each. An explicit method's stability region is
+// bounded and contains a stretch of the negative real axis next to 0; scaling h moves every
+// h lambda along its ray from 0, and on each ray the outermost eigenvalue crosses the region's
+// boundary first. The spectral radius sets the step on stiff, nearly real spectra (diffusion), the
+// leftmost the damping-dominated modes, the most oscillatory those near the imaginary axis.
+// Not covered: an eigenvalue inside the spectrum's outline that is outermost on its own ray (a
+// moderate, weakly damped oscillation when the method's region hugs the imaginary axis, as for
+// explicit Euler: its step limit is 2 min(-Re(1/lambda)), set by J^-1's spectrum, not J's), and
+// regions whose real stable set has gaps (an interior eigenvalue may fall into one). Each estimate
+// is moved outward by its error radius before its |R| is measured, so an estimate's own error
+// cannot let an unstable step pass (within the radius' stated assumptions).
 #include <algorithm>
 #include <cmath>
 #include <complex>
@@ -16,6 +31,7 @@
 #include <optional>
 #include <sstream>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <Eigen/Dense>
@@ -25,7 +41,9 @@
 #include "stepcert/methods/method.hpp"
 #include "stepcert/run/counted_rhs.hpp"
 #include "stepcert/run/run.hpp"
+#include "stepcert/transport/extreme_eigenvalues.hpp"
 #include "stepcert/transport/jacobian.hpp"
+#include "stepcert/transport/jacobian_product.hpp"
 
 namespace stepcert {
 
@@ -33,6 +51,22 @@ namespace stepcert {
 /// of one method step (about 1e-15 here), so a mode on the boundary (R(-2) = -1 for explicit Euler)
 /// is not called unstable by round-off, while (1 + 1e-12)^N stays below 1 + 1e-6 for N <= 1e6 steps.
 inline constexpr double amplification_slack = 1e-12;
+
+/// How the Jacobian's eigenvalues are found.
+enum class eigenvalue_path {
+    automatic,    ///< dense up to dense_up_to unknowns, matrix-free beyond
+    dense,        ///< every eigenvalue of the dense Jacobian (refused beyond max_dimension)
+    matrix_free,  ///< the extreme eigenvalues from Jacobian-vector products
+};
+
+inline std::string_view to_string(eigenvalue_path e) {
+    switch (e) {
+    case eigenvalue_path::automatic: return "automatic";
+    case eigenvalue_path::dense: return "dense";
+    case eigenvalue_path::matrix_free: return "matrix-free";
+    }
+    return "?";
+}
 
 struct linear_stability_options {
     double neutral = 1e-8;      ///< Re lambda >= -neutral * max|lambda| (per sample): neutral or growing, not checked
@@ -43,13 +77,24 @@ struct linear_stability_options {
     /// Every eigenvalue of a dense n x n Jacobian is computed (O(n^3) time, 8 n^2 bytes): larger
     /// systems are refused rather than left to run out of memory or time.
     std::size_t max_dimension = 2000;
+    eigenvalue_path eigenvalues = eigenvalue_path::automatic;
+    /// automatic: dense at or below this many unknowns. Measured (bench/bench_stability_large.cpp,
+    /// busbar, one run): the dense check costs 12 ms per sample at 200 unknowns, 97 ms at 400 and
+    /// 0.8 s at 800 (n^3), and a certification checks 20 to 50 samples; the matrix-free estimate
+    /// takes about 0.6 ms at all these sizes, but sees only the extreme eigenvalues, so small
+    /// systems keep every one.
+    std::size_t dense_up_to = 200;
+    /// Matrix-free estimate (budget of products per sample, tolerance, error radii).
+    extreme_eigenvalue_options extreme{};
 };
 
 /// A decaying mode: an eigenvalue, the time of the first sample it came from, |R(h lambda)|.
 struct stability_mode {
-    std::complex<double> lambda;
+    std::complex<double> lambda;  ///< measured: on the matrix-free path the estimate moved outward by its radius
     double time = 0.0;
     double amplification = 0.0;
+    std::complex<double> estimate{};  ///< matrix-free: the Ritz value lambda came from (dense: lambda itself)
+    double radius = 0.0;              ///< matrix-free: |lambda - estimate|, the estimate's error bound
 };
 
 struct linear_stability_verdict {
@@ -70,6 +115,11 @@ struct linear_stability_verdict {
     std::size_t rhs_evaluations = 0;      ///< problem right-hand side: Jacobians (+ the run, check_run_stability)
     std::size_t method_steps = 0;         ///< method steps on the 2-unknown test system
     std::string basis;                    ///< what was checked and how, in words
+    eigenvalue_path path = eigenvalue_path::dense;  ///< the one used: dense or matrix_free
+    std::size_t jacobian_products = 0;    ///< matrix-free: Jacobian-vector products over all samples
+    double largest_radius = 0.0;          ///< matrix-free: largest radius / |estimate| applied (relative)
+    bool estimates_converged = true;      ///< matrix-free: every sample's estimate met its tolerance
+    double spectral_radius = 0.0;         ///< largest |lambda| seen (matrix-free: estimate + radius)
 };
 
 namespace detail {
@@ -138,13 +188,28 @@ linear_stability_verdict check_linear_stability(const P& p, const M& m, double h
     v.step = h;
     v.samples = states.size();
     const std::size_t n = state_size(p.y0());
-    if (n > opt.max_dimension)
+    const bool dense = opt.eigenvalues == eigenvalue_path::dense ||
+                       (opt.eigenvalues == eigenvalue_path::automatic && n <= opt.dense_up_to);
+    v.path = dense ? eigenvalue_path::dense : eigenvalue_path::matrix_free;
+    if (dense && n > opt.max_dimension)
         throw unsupported_operation(who + "the check computes every eigenvalue of the dense " + std::to_string(n) + " x " +
                                     std::to_string(n) + " Jacobian, beyond its limit of " + std::to_string(opt.max_dimension) +
-                                    " unknowns (linear_stability_options::max_dimension). Check the step on a coarser "
-                                    "discretization of the same model, or turn the check off (certify_options::"
-                                    "check_stability = false) and give the stability argument yourself.");
+                                    " unknowns (linear_stability_options::max_dimension). Use the matrix-free estimate of "
+                                    "the extreme eigenvalues (linear_stability_options::eigenvalues = eigenvalue_path::"
+                                    "matrix_free), check the step on a coarser discretization of the same model, or turn "
+                                    "the check off (certify_options::check_stability = false) and give the stability "
+                                    "argument yourself.");
+    if (!dense) opt.extreme.validate(who + "options.extreme: ");
+    std::string estimate_method;  // matrix-free: how the first sample's estimate was made
     std::vector<stability_mode> modes;  // lambda with Im >= 0: R(conj z) = conj R(z) for real methods
+    auto add_mode = [&](std::complex<double> lambda, std::complex<double> estimate, double t) {
+        const std::complex<double> key(lambda.real(), std::abs(lambda.imag()));
+        const bool known = std::any_of(modes.begin(), modes.end(), [&](const stability_mode& q) {
+            return std::abs(q.lambda - key) <= opt.same_mode * std::max(std::abs(q.lambda), std::abs(key));
+        });
+        if (!known)
+            modes.push_back({key, t, 0.0, {estimate.real(), std::abs(estimate.imag())}, std::abs(lambda - estimate)});
+    };
     for (std::size_t k = 0; k < states.size(); ++k) {
         const double t = static_cast<double>(times[k]);
         if (!std::isfinite(t)) throw non_finite_value(who + "sample time " + std::to_string(k) + " is NaN or infinite.");
@@ -154,23 +219,53 @@ linear_stability_verdict check_linear_stability(const P& p, const M& m, double h
         if (!all_finite(states[k]))
             throw non_finite_value(who + "the sample state at t = " + detail::time_text(t) +
                                    " has a NaN or infinite component; the run blew up there (reduce h) or the data is broken.");
-        const Eigen::MatrixXd J = jacobian_at(p, states[k], t);
-        v.rhs_evaluations += jacobian_evaluations(p, n);
-        const Eigen::EigenSolver<Eigen::MatrixXd> eig(J, false);
-        if (eig.info() != Eigen::Success)
-            throw budget_exhausted(who + "the eigenvalue iteration did not converge for the Jacobian at t = " +
-                                   detail::time_text(t) + "; check the Jacobian there (badly scaled entries?).");
-        const Eigen::VectorXcd lambdas = eig.eigenvalues();
-        const double scale = lambdas.cwiseAbs().maxCoeff();
-        for (const std::complex<double>& l : lambdas) {
-            const bool decaying = l.real() < -opt.neutral * scale;
+        if (dense) {
+            const Eigen::MatrixXd J = jacobian_at(p, states[k], t);
+            v.rhs_evaluations += jacobian_evaluations(p, n);
+            const Eigen::EigenSolver<Eigen::MatrixXd> eig(J, false);
+            if (eig.info() != Eigen::Success)
+                throw budget_exhausted(who + "the eigenvalue iteration did not converge for the Jacobian at t = " +
+                                       detail::time_text(t) + "; check the Jacobian there (badly scaled entries?).");
+            const Eigen::VectorXcd lambdas = eig.eigenvalues();
+            const double scale = lambdas.cwiseAbs().maxCoeff();
+            v.spectral_radius = std::max(v.spectral_radius, scale);
+            for (const std::complex<double>& l : lambdas) {
+                const bool decaying = l.real() < -opt.neutral * scale;
+                ++(decaying ? v.eigenvalues_checked : v.eigenvalues_skipped);
+                if (decaying) add_mode(l, l, t);
+            }
+            continue;
+        }
+        // Matrix-free: exact products with the problem's own Jacobian on a small system (at most
+        // dense_up_to unknowns, where the dense path would have formed it anyway), forward
+        // differences otherwise: no n x n matrix beyond dense_up_to.
+        const auto source = P::has_jacobian && n <= opt.dense_up_to ? jacobian_product_source::problem_jacobian
+                                                                     : jacobian_product_source::forward_difference;
+        jacobian_product<P> op(p, states[k], t, opt.extreme.max_products, source);
+        const extreme_eigenvalue_estimate est = estimate_extreme_eigenvalues(op, opt.extreme);
+        v.rhs_evaluations += op.evaluations();
+        v.jacobian_products += op.products();
+        v.estimates_converged = v.estimates_converged && est.converged;
+        if (estimate_method.empty()) estimate_method = est.method + ", " + op.description();
+        const double scale = est.spectral_radius();
+        v.spectral_radius = std::max(v.spectral_radius, scale);
+        for (const estimated_eigenvalue& e : est.eigenvalues) {
+            const bool decaying = e.value.real() < -opt.neutral * scale;
             ++(decaying ? v.eigenvalues_checked : v.eigenvalues_skipped);
             if (!decaying) continue;
-            const std::complex<double> key(l.real(), std::abs(l.imag()));
-            const bool known = std::any_of(modes.begin(), modes.end(), [&](const stability_mode& q) {
-                return std::abs(q.lambda - key) <= opt.same_mode * std::max(std::abs(q.lambda), std::abs(key));
-            });
-            if (!known) modes.push_back({key, t, 0.0});
+            const double size = std::abs(e.value);
+            if (size > 0.0) v.largest_radius = std::max(v.largest_radius, e.radius / size);
+            const std::complex<double> out = size > 0.0 ? e.value / size : std::complex<double>(-1.0, 0.0);
+            // Outward along the ray (the scan's direction); a complex (non-symmetric) estimate also
+            // sideways both ways: three points of the disk of its radius.
+            std::vector<std::complex<double>> points{e.value + e.radius * out};
+            if (!est.symmetric) {
+                const std::complex<double> side = out * std::complex<double>(0.0, 1.0);
+                points.push_back(e.value + e.radius * side);
+                points.push_back(e.value - e.radius * side);
+            }
+            for (const std::complex<double>& z : points)
+                if (z.real() < -opt.neutral * scale) add_mode(z, e.value, t);
         }
     }
     v.distinct_modes = modes.size();
@@ -219,7 +314,16 @@ linear_stability_verdict check_linear_stability(const P& p, const M& m, double h
     std::ostringstream b;
     b.precision(6);
     b << "method '" << m.name() << "' at h = " << h << ": " << v.samples << " sample states (t = " << times.front() << " to "
-      << times.back() << "), " << jacobian_source(p) << "; " << v.eigenvalues_checked << " decaying eigenvalues checked ("
+      << times.back() << "), ";
+    if (dense)
+        b << jacobian_source(p) << ", every eigenvalue (dense path, " << n << " unknowns); ";
+    else
+        b << "matrix-free path (" << n << " unknowns): the extreme eigenvalues (largest magnitude, leftmost, most "
+          << "oscillatory) estimated by " << estimate_method << "; " << v.jacobian_products << " products in all; each "
+          << "estimate moved outward by its error radius (largest " << v.largest_radius << " of |lambda|) before measuring"
+          << (v.estimates_converged ? "" : ", some estimates NOT converged within the product budget (larger radii)")
+          << "; eigenvalues inside the spectrum's outline are not checked; ";
+    b << v.eigenvalues_checked << " decaying eigenvalues checked ("
       << v.distinct_modes << " distinct after merging near-equal and conjugate ones), |R(h lambda)| measured by one step "
       << "on the 2x2 real form of y' = z y; " << v.eigenvalues_skipped
       << " neutral or growing eigenvalues not checked (physical growth: accuracy governs it). ";
