@@ -21,6 +21,7 @@
 #include "stepcert/certify/certify_step_count.hpp"
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/problem.hpp"
+#include "stepcert/core/state_eigen.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
 #include "stepcert/run/run.hpp"
@@ -479,4 +480,26 @@ TEST(HardModels, OrderThatNeverSettlesIsSaidSo) {
     EXPECT_LT(c.evaluations, 2'000'000u);
     std::printf("single-precision step bug: refused '%s' after %zu evaluations: %s\n", std::string(stepcert::to_string(c.reason)).c_str(),
                 c.evaluations, c.reason_detail.c_str());
+}
+
+// 12. The same stiff kinetics held in an Eigen vector (table row 7: an Eigen::VectorXd state did
+// not compile before issue 15): the same certificate, step for step, as with std::vector. The
+// other state types, and 5,000 decoupled decays through the matrix-free stability check (table
+// row 6), are certified in tests/test_core_state_types.cpp and tests/test_stability_matrix_free.cpp.
+TEST(HardModels, StiffKineticsInAnEigenVectorCertifiesAlike) {
+    const auto tol = atol_only(1e-6);
+    stepcert::certify_options opt;
+    opt.verify_with_reference = false;
+    const auto with_vector = stepcert::certify(
+        stepcert::make_problem("reactor kinetics", reactor_kinetics{}, std::vector<double>{1.0, 0.0, 0.0}, 0.0, 1.0),
+        stepcert::classic_rk4, tol, opt);
+    Eigen::VectorXd y0(3);
+    y0 << 1.0, 0.0, 0.0;
+    const auto with_eigen = stepcert::certify(stepcert::make_problem("reactor kinetics", reactor_kinetics{}, y0, 0.0, 1.0),
+                                              stepcert::classic_rk4, tol, opt);
+    ASSERT_TRUE(with_eigen.issued()) << with_eigen.reason_detail;
+    EXPECT_EQ(with_eigen.steps, with_vector.steps);
+    EXPECT_EQ(with_eigen.evaluations, with_vector.evaluations);
+    EXPECT_EQ(with_eigen.error_band, with_vector.error_band);
+    EXPECT_EQ(with_eigen.limited_by, stepcert::step_limited_by::stability);
 }

@@ -122,7 +122,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
         const auto s0 = detail::stability_at(p, m, length / static_cast<double>(n0), std::vector<D>{convert_state<D>(p.y0())},
                                              std::vector<double>{static_cast<double>(p.t0())}, stability_evaluations);
         if (std::isfinite(s0.step_limit) && s0.step_limit > 0.0 && !s0.stable)
-            n0 = detail::round_up_to(static_cast<std::size_t>(std::ceil(length / (0.95 * s0.step_limit))), G);
+            n0 = detail::round_up_to(static_cast<std::size_t>(std::min(std::ceil(length / (0.95 * s0.step_limit)), 1e18)), G);
     }
 
     // The ladder: each level is twice the last, or, once the order predicts N* within that, N*
@@ -240,10 +240,12 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                     return finish(detail::refuse(c, refusal::unbounded_growth, *growth));
             }
             if (finite && k >= 1 && std::isfinite(d)) {
-                // Down at rounding: by the floor estimate, or, once an order has been seen, by
-                // differences that stop falling as h shrinks (rounding in long runs can grow
-                // faster than the floor's sqrt(N)).
-                if (d <= runs.round_off_floor_units(n) || (std::isfinite(p_seen) && !(d < L.diff[k - 1]))) {
+                // Down at rounding: by the floor estimate, or by differences that stop falling as h
+                // shrinks once an order has been seen or while they are already below 1e-3 of the
+                // target (rounding in long runs, and in stiff ones at the stability edge, where
+                // high modes are barely damped, grows faster than the floor's sqrt(N)).
+                const bool not_falling = !(d < L.diff[k - 1]);
+                if (d <= runs.round_off_floor_units(n) || (not_falling && (std::isfinite(p_seen) || d <= 1e-3 * opt.target))) {
                     plateau = true;
                     break;
                 }
@@ -367,9 +369,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                 return finish(detail::refuse(c, refusal::unstable,
                                              "the runs agree to rounding at " + std::to_string(fine) + " steps, but that step is "
                                              "outside the stability region along the run (" + c.stability.worst_mode +
-                                             "): take at least " +
-                                             std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) +
-                                             " steps."));
+                                             "): " + detail::steps_for_limit(length, c.stability.step_limit) + "."));
             const double fine_estimate = c.estimated_error, fine_band = c.error_band;
             const std::string fine_basis = c.basis;
             detail::coarsen_by_difference(p, m, runs, c, opt, stability_evaluations, L.coarser_blew_up_unstable(fine));
@@ -461,7 +461,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             }
             if (!(band <= opt.target)) {
                 const double grow = std::isfinite(band) ? std::pow(band / opt.target, 1.0 / p_declared) * 1.02 : 2.0;
-                n_star = detail::round_up_to(static_cast<std::size_t>(std::ceil(static_cast<double>(n_star) * grow)), G);
+                n_star = detail::round_up_to(static_cast<std::size_t>(std::min(std::ceil(static_cast<double>(n_star) * grow), 1e18)), G);
                 continue;
             }
             c.stability = detail::stability_of_run(p, m, runs, n_star, opt, stability_evaluations);
@@ -469,7 +469,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                 notes += "N = " + std::to_string(n_star) + " met the estimate but was unstable; ";
                 const double limit = c.stability.step_limit;
                 const std::size_t stable_n =
-                    (std::isfinite(limit) && limit > 0.0) ? static_cast<std::size_t>(std::ceil(length / (0.98 * limit))) : 2 * n_star;
+                    (std::isfinite(limit) && limit > 0.0) ? static_cast<std::size_t>(std::min(std::ceil(length / (0.98 * limit)), 1e18)) : 2 * n_star;
                 n_star = detail::round_up_to(std::max(stable_n, n_star + 1), G);
                 continue;
             }
@@ -518,7 +518,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                         const double grow = std::isfinite(c.reference_error)
                                                 ? std::pow(c.reference_error / opt.target, 1.0 / p_declared) * 1.02
                                                 : 2.0;
-                        n_star = detail::round_up_to(static_cast<std::size_t>(std::ceil(static_cast<double>(n_star) * grow)), G);
+                        n_star = detail::round_up_to(static_cast<std::size_t>(std::min(std::ceil(static_cast<double>(n_star) * grow), 1e18)), G);
                         c.level = evidence_level::not_certified;
                         continue;
                     }

@@ -174,8 +174,8 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
                 return finish(detail::refuse(c, refusal::unstable,
                                              "the run blew up from an unstable step: " + fr.stability + ". " + fr.message +
                                                  (std::isfinite(fr.step_limit) ? " The stable step there is at most " +
-                                                      detail::certificate_number(fr.step_limit) + ": take at least " +
-                                                      std::to_string(static_cast<std::size_t>(std::ceil(length / fr.step_limit))) + " steps."
+                                                      detail::certificate_number(fr.step_limit) + ": " +
+                                                      detail::steps_for_limit(length, fr.step_limit) + "."
                                                                                : std::string())));
             return finish(detail::refuse(c, refusal::non_finite, fr.message));
         }
@@ -185,8 +185,8 @@ step_certificate certify_step_count(const P& p, const M& m, std::size_t n, const
                 c, refusal::unstable,
                 "h = " + detail::certificate_number(length / static_cast<double>(n)) +
                     " puts h lambda outside the method's stability region (" + c.stability.worst_mode +
-                    "); the largest stable step found is " + detail::certificate_number(c.stability.step_limit) + ": take at least " +
-                    std::to_string(static_cast<std::size_t>(std::ceil(length / c.stability.step_limit))) + " steps."));
+                    "); the largest stable step found is " + detail::certificate_number(c.stability.step_limit) + ": " +
+                    detail::steps_for_limit(length, c.stability.step_limit) + "."));
         // With the truth at hand it decides; Richardson is then only reported (when it holds).
         detail::truth_once<P> truths(p, G, tol);
         const auto* truth = opt.verify_with_reference ? truths.get(c) : nullptr;

@@ -94,14 +94,28 @@ double round_off_units_at_start(const P& p, const weighted_norm& tol, double fac
     return tol.of_difference(e, y0);
 }
 
+/// "take at least N steps" from a stable step limit, or "take more steps" when none is known.
+inline std::string steps_for_limit(double length, double limit) {
+    if (!(limit > 0.0) || !std::isfinite(limit) || !(length / limit < 1e15)) return "take more steps";
+    return "take at least " + std::to_string(static_cast<std::size_t>(std::ceil(length / limit))) + " steps";
+}
+
 /// The stability of step h at the given sample states, as the certificate records it.
 template <class P, class M, class S, class T>
 stability_record stability_at(const P& p, const M& m, double h, const std::vector<S>& states, const std::vector<T>& times,
                               std::size_t& evaluations) {
-    const auto v = check_linear_stability(p, m, h, states, times);
-    evaluations += v.rhs_evaluations;
     stability_record rec;
     rec.checked = true;
+    linear_stability_verdict v;
+    try {
+        v = check_linear_stability(p, m, h, states, times);
+    } catch (const non_finite_value& e) {
+        // The run's states have grown so large that the Jacobian overflows there: an unstable run.
+        rec.stable = false;
+        rec.worst_mode = std::string("no finite Jacobian at the run's states (") + e.what() + ")";
+        return rec;
+    }
+    evaluations += v.rhs_evaluations;
     rec.stable = v.stable;
     rec.margin = v.margin;
     rec.step_limit = v.step_limit;
@@ -197,7 +211,7 @@ void toward_stability_limit(const P& p, const M& m, certify_runs<P, M>& runs, st
     if (c.limited_by != step_limited_by::stability || !(c.stability.step_limit > 0.0) || !std::isfinite(c.stability.step_limit))
         return;
     const double length = static_cast<double>(p.t1() - p.t0());
-    const std::size_t n = round_up_to(static_cast<std::size_t>(std::ceil(length / (0.98 * c.stability.step_limit))), opt.output_times);
+    const std::size_t n = round_up_to(static_cast<std::size_t>(std::min(std::ceil(length / (0.98 * c.stability.step_limit)), 1e18)), opt.output_times);
     if (n >= c.steps) return;
     try {
         const double d = runs.difference(n, fine);
@@ -237,11 +251,11 @@ void coarsen_against_truth(const P& p, const M& m, certify_runs<P, M>& runs, con
         } catch (const non_finite_value&) {
             return false;
         }
-        unstable_failure = false;
-        if (!(e <= 1.0)) return false;
+        // A run that misses may miss because it is unstable (growing but still finite): its
+        // stability says which limit stopped the coarsening.
         st = stability_of_run(p, m, runs, n, opt, stability_evaluations);
         unstable_failure = st.checked && !st.stable;
-        return !unstable_failure;
+        return e <= 1.0 && !unstable_failure;
     };
     for (int attempt = 0; attempt < 24 && good > G; ++attempt) try {
         std::size_t trial;
