@@ -327,6 +327,17 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
     if (std::isfinite(p_seen)) c.observed_order = p_seen;
 
     detail::truth_once<P> truths(p, G, tol);
+    // The certificate's run met the tolerance against the truth: verified, and maybe coarser.
+    auto verified = [&](const auto& truth) {
+        c.level = evidence_level::reference_verified;
+        if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, truth, c, opt, stability_evaluations);
+    };
+    // No truth: a NaN in the reference refuses; otherwise the estimated level stands (or is refused
+    // when the reference was required).
+    auto without_reference = [&]() -> std::optional<step_certificate> {
+        if (truths.non_finite()) return detail::refuse_non_finite_reference(c, truths.why());
+        return detail::without_truth(c, opt, truths.why());
+    };
     if (!consistent_at) {
         if (plateau) {
             // The plateau's first run: its difference from the next is rounding, so its error is
@@ -394,11 +405,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                                 " off; the runs agree with each other more closely than with the solution (an error the "
                                 "method makes the same way at every step). Check the method and the model."));
                     }
-                    c.level = evidence_level::reference_verified;
-                    if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
-                } else if (truths.non_finite()) {
-                    return finish(detail::refuse_non_finite_reference(c, truths.why()));
-                } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
+                    verified(*truth);
+                } else if (auto refused = without_reference()) {
                     return finish(*refused);
                 }
             }
@@ -533,11 +541,8 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
                         c.stability = detail::stability_of_run(p, m, runs, n_star, opt, stability_evaluations);
                         c.reference_error = runs.error_against(n_star, *truth);
                     }
-                    c.level = evidence_level::reference_verified;
-                    if (opt.coarsen_with_reference) detail::coarsen_against_truth(p, m, runs, *truth, c, opt, stability_evaluations);
-                } else if (truths.non_finite()) {
-                    return finish(detail::refuse_non_finite_reference(c, truths.why()));
-                } else if (auto refused = detail::without_truth(c, opt, truths.why())) {
+                    verified(*truth);
+                } else if (auto refused = without_reference()) {
                     return finish(*refused);
                 }
             }
