@@ -320,8 +320,7 @@ step_certificate certify(const P& p, const M& m, const weighted_norm& tol, const
             evidence = order_evidence::above_declared;
             safety = opt.unconfirmed_safety_factor;
             p_used = p_declared;
-            n_star = std::max(predicted(L.level[k - 1], L.level[k], L.diff[k], p_used, 0.97), L.level[k]);
-            n_star = std::min(n_star, L.level[k]);  // finer runs would only meet rounding
+            n_star = L.level[k];  // the finest run before rounding; finer ones would only meet rounding
         }
     }
     if (std::isfinite(p_seen)) c.observed_order = p_seen;

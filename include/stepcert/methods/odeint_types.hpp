@@ -20,11 +20,14 @@ constexpr bool fixed_size_state() {
         return false;
 }
 
-/// odeint's algebra and operations for S. odeint sizes a stepper's scratch states on the first
-/// step only if is_resizeable<S> says so; a state of run-time size it does not know as resizable
-/// would be stepped with empty scratch states, writing out of bounds. Refused here, once.
+/// odeint's algebra for S. odeint sizes a stepper's scratch states on the first step only if
+/// is_resizeable<S> says so; a state of run-time size it does not know as resizable would be
+/// stepped with empty scratch states, writing out of bounds. Refused here, once: a function
+/// template's body is instantiated once per S, however many steppers name the type (a
+/// static_assert in a class would leave the class invalid, and Clang would then report every
+/// later use of its members as another error).
 template <class S>
-struct odeint_support {
+auto odeint_algebra_for() {
     static_assert(fixed_size_state<S>() || boost::numeric::odeint::is_resizeable<S>::value,
                   "stepcert: odeint does not resize this state type (boost::numeric::odeint::is_resizeable<S> is "
                   "false), so its steppers' scratch states would stay empty and a step would write out of bounds. "
@@ -32,9 +35,13 @@ struct odeint_support {
                   "<stepcert/core/state_ublas.hpp>; for your own type specialize is_resizeable (odeint's "
                   "'adapt your own state types'), or declare state_traits<S>::fixed_size = true if its size "
                   "never changes.");
-    using algebra_type = typename boost::numeric::odeint::algebra_dispatcher<S>::algebra_type;
-    using operations_type = typename boost::numeric::odeint::operations_dispatcher<S>::operations_type;
-};
+    return typename boost::numeric::odeint::algebra_dispatcher<S>::algebra_type{};
+}
+
+template <class S>
+auto odeint_operations_for() {
+    return typename boost::numeric::odeint::operations_dispatcher<S>::operations_type{};
+}
 
 } // namespace stepcert::detail
 
@@ -44,9 +51,9 @@ struct odeint_support {
 namespace stepcert::odeint_stepper {
 
 template <class S>
-using default_algebra = typename detail::odeint_support<S>::algebra_type;
+using default_algebra = decltype(detail::odeint_algebra_for<S>());
 
 template <class S>
-using default_operations = typename detail::odeint_support<S>::operations_type;
+using default_operations = decltype(detail::odeint_operations_for<S>());
 
 } // namespace stepcert::odeint_stepper

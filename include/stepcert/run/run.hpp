@@ -87,7 +87,8 @@ void require_separable_if_needed(const P& p, const M& m, std::string_view who) {
 /// failure that already has its site, or that the replay cannot place, is rethrown unchanged.
 template <class S, class Y0, class Replay>
 [[noreturn]] void rethrow_with_site(const non_finite_value& e, const std::string& problem_name, const trajectory<S>& out,
-                                    const Y0& y0, double failing_time, std::size_t evaluations, Replay&& replay) {
+                                    const Y0& y0, double failing_time, std::size_t evaluations, const std::size_t& replayed,
+                                    Replay&& replay) {
     if (e.site() != nullptr || out.states.empty()) throw;
     probe_record seen;
     const double scale = std::max(largest_magnitude(out.states.back()), largest_magnitude(y0));
@@ -105,7 +106,7 @@ template <class S, class Y0, class Replay>
     }
     auto site = measured_site(seen, static_cast<double>(out.times.back()), failing_time, completed ? &y : nullptr);
     if (!site) throw;
-    site->evaluations = evaluations;
+    site->evaluations = evaluations + replayed;  // the replay is part of what the failed run cost
     throw non_finite_value(non_finite_message(problem_name, *site), std::move(*site));
 }
 
@@ -195,8 +196,8 @@ auto run_uniform(const P& p, const M& m, std::size_t n, std::size_t stride = 0, 
     } catch (const non_finite_value& e) {
         const std::size_t j = out.times.empty() ? 0 : out.times.size() - 1;
         const double failing = static_cast<double>(breaks.empty() ? t0 + static_cast<Tr>((j + 1) * stride) * h : grid[j + 1].t);
-        detail::rethrow_with_site(e, p.name(), out, p.y0(), failing, evaluations, [&](detail::probe_record& seen, S& x) {
-            std::size_t replayed = 0;
+        std::size_t replayed = 0;
+        detail::rethrow_with_site(e, p.name(), out, p.y0(), failing, evaluations, replayed, [&](detail::probe_record& seen, S& x) {
             counted_rhs<typename P::rhs_type> counted{&local_rhs, &replayed, opt.max_evaluations};
             detail::non_finite_probe<counted_rhs<typename P::rhs_type>> probe{&counted, &seen};
             advance(probe, x, j);
@@ -268,8 +269,8 @@ auto run_adaptive(const P& p, const M& m, controller_tolerance tol,
     } catch (const non_finite_value& e) {
         const std::size_t j = out.times.empty() ? 0 : out.times.size() - 1;
         const double failing = static_cast<double>(times[std::min(j, times.size() - 1)]);
-        detail::rethrow_with_site(e, p.name(), out, p.y0(), failing, evaluations, [&](detail::probe_record& seen, S& x) {
-            std::size_t replayed = 0;
+        std::size_t replayed = 0;
+        detail::rethrow_with_site(e, p.name(), out, p.y0(), failing, evaluations, replayed, [&](detail::probe_record& seen, S& x) {
             run_stats ignored;
             counted_rhs<typename P::rhs_type> counted{&local_rhs, &replayed, opt.max_evaluations};
             detail::non_finite_probe<counted_rhs<typename P::rhs_type>> probe{&counted, &seen};
@@ -339,9 +340,9 @@ auto run_on_grid(const P& p, const M& m, const std::vector<std::conditional_t<st
         }
     } catch (const non_finite_value& e) {
         const std::size_t k = out.times.size();
+        std::size_t replayed = 0;
         detail::rethrow_with_site(e, p.name(), out, p.y0(), static_cast<double>(times[std::min(k, times.size() - 1)]),
-                                  out.stats.evaluations, [&](detail::probe_record& seen, S& x) {
-                                      std::size_t replayed = 0;
+                                  out.stats.evaluations, replayed, [&](detail::probe_record& seen, S& x) {
                                       counted_rhs<typename P::rhs_type> counted{&local_rhs, &replayed, opt.max_evaluations};
                                       detail::non_finite_probe<counted_rhs<typename P::rhs_type>> probe{&counted, &seen};
                                       step(probe, x, k);
