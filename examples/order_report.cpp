@@ -57,6 +57,7 @@ void report(const P& problem, bool separable_methods, bool tables) {
     results.push_back(order_study(problem, cash_karp54, step_ladder{256, 1.5, 7}, opt, reference));
     results.push_back(order_study(problem, dormand_prince54, step_ladder{512, 1.5, 7}, opt, reference));
     results.push_back(order_study(problem, fehlberg78, step_ladder{256, 1.25, 8}, opt, reference));
+    results.push_back(order_study(problem, rosenbrock4_fixed, step_ladder{256, 2.0, 6}, opt, reference));
     if (separable_methods) results.push_back(order_study(problem, symplectic_rkn, step_ladder{64, 2.0, 8}, opt, reference));
     results.push_back(order_study(problem, dormand_prince54_adaptive, tolerance_ladder{1e-4, 10.0, 7}, opt, reference));
     results.push_back(order_study(problem, bulirsch_stoer_adaptive, tolerance_ladder{1e-5, 10.0, 6}, opt, reference));

@@ -23,6 +23,8 @@
 #include "stepcert/methods/bulirsch_stoer.hpp"
 #include "stepcert/methods/adams_bashforth_moulton.hpp"
 #include "stepcert/methods/symplectic_rkn.hpp"
+#include "stepcert/methods/rosenbrock4.hpp"
+#include "stepcert/methods/rosenbrock4_adaptive.hpp"
 #include "stepcert/methods/one_step_method.hpp"
 #include "stepcert/reference/reference_solution.hpp"
 #include "stepcert/methods/adaptive_tableau_method.hpp"

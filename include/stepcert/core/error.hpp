@@ -68,6 +68,13 @@ public:
     using error::error;
 };
 
+/// The method itself cannot take a step where asked: an implicit method's iteration matrix is
+/// singular, or its iteration does not converge. The message names the time and the step.
+class method_failure : public error {
+public:
+    using error::error;
+};
+
 /// A problem or method lacks something the requested operation needs.
 class unsupported_operation : public error {
 public:
