@@ -1,7 +1,8 @@
-// Wrapper overhead: stepcert's run_uniform with classic_rk4 and dormand_prince54 against the
-// loop a user writes around odeint's do_step, same stepper, same steps, same right-hand side.
+// Wrapper overhead: stepcert's run_uniform with classic_rk4, dormand_prince54 and Rosenbrock 4
+// against the loop a user writes around odeint's do_step, same stepper, same steps, same
+// right-hand side (Rosenbrock 4: the same given Jacobian and df/dt on both sides).
 // Problem: a two-mass spring chain between two walls (our own), state (x1, x2, v1, v2).
-// Acceptance: median time ratio (stepcert / raw) <= 1.02. Run with
+// Acceptance: median time ratio (stepcert / raw) <= 1.02 (Rosenbrock 4: <= 1.03). Run with
 //   --benchmark_repetitions=10 --benchmark_report_aggregates_only=true
 // (add --benchmark_enable_random_interleaving=true on a shared machine).
 #include <array>
@@ -11,7 +12,9 @@
 #include <benchmark/benchmark.h>
 
 #include "stepcert/methods/classic_rk4.hpp"
+#include "stepcert/core/state_ublas.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
+#include "stepcert/methods/rosenbrock4.hpp"
 #include "stepcert/run/run.hpp"
 
 namespace {
@@ -30,13 +33,36 @@ struct spring_chain {
     }
 };
 
+/// Its Jacobian, written out (constant: the chain is linear).
+struct spring_chain_jacobian {
+    spring_chain c;
+    template <class S, class T, class M>
+    void operator()(const S&, const T&, M& J) const {
+        J(0, 2) = 1.0;
+        J(1, 3) = 1.0;
+        J(2, 0) = (-c.k1 - c.k2) / c.m1;
+        J(2, 1) = c.k2 / c.m1;
+        J(2, 2) = -c.c / c.m1;
+        J(3, 0) = c.k2 / c.m2;
+        J(3, 1) = (-c.k2 - c.k3) / c.m2;
+        J(3, 3) = -c.c / c.m2;
+    }
+};
+
+/// df/dt = 0: the chain does not depend on t.
+struct no_time_dependence {
+    template <class S, class T>
+    void operator()(const S&, const T&, S& v) const {
+        for (std::size_t i = 0; i < stepcert::state_size(v); ++i) v[i] = 0.0;
+    }
+};
+
 constexpr std::size_t steps = 20000;
 constexpr double t1 = 10.0;
 
 template <class S>
 S initial_state() {
-    S y{};
-    if constexpr (!stepcert::state_traits<S>::fixed_size) y.resize(4);
+    S y = stepcert::state_traits<S>::make(4);
     y[0] = 0.05;
     y[1] = -0.02;
     y[2] = 0.0;
@@ -82,6 +108,46 @@ void through_stepcert(benchmark::State& bs, const Method& method) {
     bs.counters["steps"] = static_cast<double>(steps);
 }
 
+/// odeint's rosenbrock4 stepped by hand on ublas vectors, Jacobian written out (zeros included).
+void rosenbrock_raw_ublas(benchmark::State& bs) {
+    using V = boost::numeric::ublas::vector<double>;
+    using M = boost::numeric::ublas::matrix<double>;
+    spring_chain chain;
+    benchmark::DoNotOptimize(chain);
+    const spring_chain_jacobian jac{chain};
+    auto f = [&chain](const V& x, V& dxdt, double t) { chain(x, dxdt, t); };
+    auto j = [&jac](const V& x, M& J, double t, V& dfdt) {
+        J.clear();
+        jac(x, t, J);
+        for (std::size_t i = 0; i < dfdt.size(); ++i) dfdt[i] = 0.0;
+    };
+    const double h = t1 / steps;
+    for (auto _ : bs) {
+        V y = initial_state<V>();
+        boost::numeric::odeint::rosenbrock4<double, stepcert::rodas_coefficients<double>> stepper;
+        double t = 0.0;
+        for (std::size_t k = 0; k < steps; ++k) {
+            stepper.do_step(std::make_pair(f, j), y, t, h);
+            t += h;
+        }
+        benchmark::DoNotOptimize(y);
+    }
+    bs.counters["steps"] = static_cast<double>(steps);
+}
+
+template <class S>
+void rosenbrock_stepcert(benchmark::State& bs) {
+    spring_chain chain;
+    benchmark::DoNotOptimize(chain);
+    const auto problem = stepcert::make_problem("spring chain", chain, initial_state<S>(), 0.0, t1).with_jacobian(spring_chain_jacobian{chain});
+    const auto method = stepcert::rosenbrock4_fixed_for(problem, no_time_dependence{});
+    for (auto _ : bs) {
+        auto run = stepcert::run_uniform(problem, method, steps);
+        benchmark::DoNotOptimize(run.states.back());
+    }
+    bs.counters["steps"] = static_cast<double>(steps);
+}
+
 using arr = std::array<double, 4>;
 using vec = std::vector<double>;
 namespace odeint = boost::numeric::odeint;
@@ -95,6 +161,9 @@ void dopri5_stepcert_array(benchmark::State& s) { through_stepcert<arr>(s, stepc
 void dopri5_raw_vector(benchmark::State& s) { raw_odeint<vec, odeint::runge_kutta_dopri5<vec>>(s); }
 void dopri5_stepcert_vector(benchmark::State& s) { through_stepcert<vec>(s, stepcert::dormand_prince54); }
 
+void rosenbrock_stepcert_ublas(benchmark::State& s) { rosenbrock_stepcert<boost::numeric::ublas::vector<double>>(s); }
+void rosenbrock_stepcert_array(benchmark::State& s) { rosenbrock_stepcert<arr>(s); }
+
 BENCHMARK(rk4_raw_array)->Unit(benchmark::kMicrosecond);
 BENCHMARK(rk4_stepcert_array)->Unit(benchmark::kMicrosecond);
 BENCHMARK(rk4_raw_vector)->Unit(benchmark::kMicrosecond);
@@ -103,5 +172,8 @@ BENCHMARK(dopri5_raw_array)->Unit(benchmark::kMicrosecond);
 BENCHMARK(dopri5_stepcert_array)->Unit(benchmark::kMicrosecond);
 BENCHMARK(dopri5_raw_vector)->Unit(benchmark::kMicrosecond);
 BENCHMARK(dopri5_stepcert_vector)->Unit(benchmark::kMicrosecond);
+BENCHMARK(rosenbrock_raw_ublas)->Unit(benchmark::kMicrosecond);
+BENCHMARK(rosenbrock_stepcert_ublas)->Unit(benchmark::kMicrosecond);
+BENCHMARK(rosenbrock_stepcert_array)->Unit(benchmark::kMicrosecond);
 
 } // namespace

@@ -85,6 +85,7 @@ struct rosenbrock4_adaptive_method
             } catch (const error&) {
                 throw;
             } catch (const std::exception& e) {  // uBLAS's own checks (builds without NDEBUG)
+                sys.check_given_derivatives(x0, static_cast<U>(t));
                 if (sys.singular_pivot(x0, static_cast<U>(t), static_cast<U>(attempted), gamma) == 0)
                     throw method_failure("stepcert: method '" + std::string(label) + "': the linear algebra of the step at t = " +
                                          system_type::text(t) + " failed: " + e.what());
@@ -92,12 +93,14 @@ struct rosenbrock4_adaptive_method
                 result = odeint::success;
             }
             if (result != odeint::success) {
+                if (!detail::all_finite_entries(x1)) sys.check_given_derivatives(x0, static_cast<U>(t));
                 ++stats.rejected;
                 dt = static_cast<T>(dt_step);
                 detail::guard_step_size(label, dt, t, resolution);
                 continue;
             }
             if (!detail::all_finite_entries(x1)) {  // a NaN the error norm did not catch, or a singular matrix: retry shorter
+                sys.check_given_derivatives(x0, static_cast<U>(t));
                 dt = attempted;
                 detail::reject_non_finite_step(label, dt, t, resolution, stats);
                 continue;

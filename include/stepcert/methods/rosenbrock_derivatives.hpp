@@ -99,20 +99,23 @@ struct rosenbrock_system {
             // A Jacobian may write only its nonzero entries.
             for (std::size_t i = 0; i < n; ++i)
                 for (std::size_t j = 0; j < n; ++j) J(i, j) = U(0);
-            to_state(x, y_scratch);
-            (*jacobian)(std::as_const(y_scratch), static_cast<T>(t), J);
+            if constexpr (same_state) {
+                (*jacobian)(x, static_cast<T>(t), J);
+            } else {
+                to_state(x, y_scratch);
+                (*jacobian)(std::as_const(y_scratch), static_cast<T>(t), J);
+            }
             if (J.size1() != n || J.size2() != n)
                 throw invalid_input("stepcert: method '" + std::string(method) + "': the Jacobian given with the problem resized its " +
                                     std::to_string(n) + " x " + std::to_string(n) + " matrix to " + std::to_string(J.size1()) +
                                     " x " + std::to_string(J.size2()) + "; write the n x n entries J(i, j) = df_i/dy_j only.");
+            // A sum of the entries is finite unless one is NaN or infinite (or they overflow it, for
+            // which the exact check below finds nothing): one pass of additions, no branch per entry.
+            U sum = U(0);
             for (std::size_t i = 0; i < n; ++i)
-                for (std::size_t j = 0; j < n; ++j)
-                    if (!(boost::math::isfinite)(J(i, j)) && all_finite_entries(x))
-                        throw non_finite_value("stepcert: method '" + std::string(method) +
-                                               "': the Jacobian given with the problem has a NaN or infinite entry (" +
-                                               std::to_string(i) + ", " + std::to_string(j) + ") at t = " + text(t) +
-                                               " for a finite state; check it there (it must be df_" + std::to_string(i) +
-                                               "/dy_" + std::to_string(j) + ").");
+                for (std::size_t j = 0; j < n; ++j) sum += J(i, j);
+            if (!(boost::math::isfinite)(sum)) [[unlikely]]
+                check_given_derivatives(x, t, &J, nullptr);
         }
         if constexpr (std::is_same_v<TimeDerivative, time_derivative_by_differences>) {
             const U delta = root3_eps * std::max(U(1), U(abs(t)));
@@ -125,7 +128,41 @@ struct rosenbrock_system {
             to_state(x, y_scratch);
             (*time_derivative)(std::as_const(y_scratch), static_cast<T>(t), f_scratch);
             from_state(f_scratch, dfdt);
-            if (!all_finite_entries(dfdt) && all_finite_entries(x))
+            U sum = U(0);
+            for (std::size_t i = 0; i < n; ++i) sum += dfdt[i];
+            if (!(boost::math::isfinite)(sum)) [[unlikely]]
+                check_given_derivatives(x, t, nullptr, &dfdt);
+        }
+    }
+
+    /// After a failed step from a finite x: a NaN or infinite entry of a given Jacobian or df/dt
+    /// there is named (non_finite_value); a differenced one means the right-hand side failed near
+    /// x, which the run driver locates.
+    /// With J or dfdt given, checks those (already evaluated at x, t) instead of evaluating anew.
+    void check_given_derivatives(const vector& x, const U& t, const matrix* J_given = nullptr, const vector* dfdt_given = nullptr) {
+        if (!all_finite_entries(x)) return;
+        const std::size_t n = x.size();
+        matrix J_own;
+        vector dfdt_own;
+        if (J_given == nullptr && dfdt_given == nullptr) {
+            J_own.resize(n, n);
+            dfdt_own.resize(n);
+            jacobian_and_time_derivative(x, J_own, t, dfdt_own);
+        }
+        const matrix& J = J_given != nullptr ? *J_given : J_own;
+        const vector& dfdt = dfdt_given != nullptr ? *dfdt_given : dfdt_own;
+        if constexpr (!std::is_same_v<Jacobian, jacobian_by_differences>) {
+            for (std::size_t i = 0; i < J.size1(); ++i)
+                for (std::size_t j = 0; j < J.size2(); ++j)
+                    if (!(boost::math::isfinite)(J(i, j)))
+                        throw non_finite_value("stepcert: method '" + std::string(method) +
+                                               "': the Jacobian given with the problem has a NaN or infinite entry (" +
+                                               std::to_string(i) + ", " + std::to_string(j) + ") at t = " + text(t) +
+                                               " for a finite state; check it there (it must be df_" + std::to_string(i) +
+                                               "/dy_" + std::to_string(j) + ").");
+        }
+        if constexpr (!std::is_same_v<TimeDerivative, time_derivative_by_differences>) {
+            if (dfdt.size() == n && !all_finite_entries(dfdt))
                 throw non_finite_value("stepcert: method '" + std::string(method) +
                                        "': the given df/dt has a NaN or infinite component at t = " + text(t) +
                                        " for a finite state; check it there.");
@@ -149,8 +186,10 @@ struct rosenbrock_system {
     }
 
     /// Called when a fixed step from x at t failed (a non-finite result, or an exception from the
-    /// linear algebra): throws method_failure if the iteration matrix is singular there, returns otherwise.
+    /// linear algebra): throws non_finite_value for a non-finite given Jacobian or df/dt, and
+    /// method_failure if the iteration matrix is singular there; returns otherwise.
     void diagnose_failed_step(const vector& x, const U& t, const U& dt, const U& gamma) {
+        check_given_derivatives(x, t);
         const std::size_t row = singular_pivot(x, t, dt, gamma);
         if (row == 0) return;
         throw method_failure("stepcert: method '" + std::string(method) + "': the iteration matrix I/(gamma h) - J is singular at t = " +
