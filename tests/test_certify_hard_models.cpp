@@ -24,6 +24,7 @@
 #include "stepcert/core/state_eigen.hpp"
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/dormand_prince54.hpp"
+#include "stepcert/problems/stiff_reactor.hpp"
 #include "stepcert/run/run.hpp"
 
 namespace test_certify_hard_models {
@@ -81,18 +82,9 @@ struct diode_oscillator {
     }
 };
 
-/// A three-species reactor (invented rate constants, the shape of a fast intermediate): A -> B
-/// slowly, B + B -> C + B fast, B + C -> A + C moderately. Stiff once B forms.
-struct reactor_kinetics {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using U = std::decay_t<decltype(y[0])>;
-        const U k1 = U(5) / U(100), k2 = U(20000000), k3 = U(20000);
-        dydt[0] = -k1 * y[0] + k3 * y[1] * y[2];
-        dydt[1] = k1 * y[0] - k3 * y[1] * y[2] - k2 * y[1] * y[1];
-        dydt[2] = k2 * y[1] * y[1];
-    }
-};
+/// A three-species reactor (problems/stiff_reactor.hpp, invented rate constants, the shape of a fast
+/// intermediate): A -> B slowly, B + B -> C + B fast, B + C -> A + C moderately. Stiff once B forms.
+using reactor_kinetics = stepcert::problems::stiff_reactor_rhs;
 
 } // namespace test_certify_hard_models
 

@@ -11,6 +11,8 @@
 
 #include <gtest/gtest.h>
 
+#include <boost/numeric/ublas/matrix.hpp>
+
 #include <boost/numeric/odeint/integrate/integrate_adaptive.hpp>
 #include <boost/numeric/odeint/stepper/bulirsch_stoer.hpp>
 
@@ -20,24 +22,17 @@
 #include "stepcert/methods/classic_rk4.hpp"
 #include "stepcert/methods/rosenbrock4.hpp"
 #include "stepcert/methods/rosenbrock4_adaptive.hpp"
+#include "stepcert/problems/stiff_reactor.hpp"
 #include "stepcert/run/run.hpp"
+#include "stepcert/transport/autodiff_jacobian.hpp"
 
 namespace test_stiff_certify {
 
 using stepcert::evidence_level;
 
-/// The three-species reactor of test_certify_hard_models.cpp (invented rate constants): A -> B
-/// slowly, B + B -> C + B fast, B + C -> A + C moderately. Stiff once B forms.
-struct reactor_kinetics {
-    template <class S, class T>
-    void operator()(const S& y, S& dydt, T) const {
-        using U = std::decay_t<decltype(y[0])>;
-        const U k1 = U(5) / U(100), k2 = U(20000000), k3 = U(20000);
-        dydt[0] = -k1 * y[0] + k3 * y[1] * y[2];
-        dydt[1] = k1 * y[0] - k3 * y[1] * y[2] - k2 * y[1] * y[1];
-        dydt[2] = k2 * y[1] * y[1];
-    }
-};
+/// The three-species reactor (problems/stiff_reactor.hpp, invented rate constants), the model of
+/// the hard-model suite's row 2.
+using reactor_kinetics = stepcert::problems::stiff_reactor_rhs;
 
 /// The states at j/8, j = 1..8, by odeint's Bulirsch–Stoer in long double at tolerance 1e-17
 /// (independent of stepcert; the hard-model suite checks it against a run at 1e-15).
@@ -66,7 +61,7 @@ double worst_error(const Run& run, const std::vector<std::vector<long double>>& 
     return worst;
 }
 
-const auto reactor = stepcert::make_problem("reactor kinetics", reactor_kinetics{}, std::vector<double>{1.0, 0.0, 0.0}, 0.0, 1.0);
+const auto reactor = stepcert::problems::stiff_reactor();
 const stepcert::weighted_norm atol_1e6{1e-6, 0.0, stepcert::norm_kind::max};
 
 TEST(StiffCertify, AdaptiveRosenbrockCertifiesTheReactorAtBothLevels) {
@@ -111,6 +106,17 @@ TEST(StiffCertify, FixedStepRosenbrockIsNeverLimitedByStability) {
                 "certification cost %zu evaluations\n",
                 c.steps, e, c.evaluations);
     EXPECT_LE(e, 1.0);
+}
+
+TEST(StiffCertify, ReactorJacobianMatchesAutodiff) {
+    // Reference: Boost.Math's forward-mode autodiff of the same right-hand side, exact to rounding.
+    const std::vector<double> y{0.7, 3e-5, 0.29997};
+    boost::numeric::ublas::matrix<double> given(3, 3), by_autodiff(3, 3);
+    stepcert::problems::stiff_reactor_jacobian{}(y, 0.4, given);
+    stepcert::autodiff_jacobian(reactor_kinetics{})(y, 0.4, by_autodiff);
+    for (std::size_t i = 0; i < 3; ++i)
+        for (std::size_t j = 0; j < 3; ++j)
+            EXPECT_NEAR(given(i, j), by_autodiff(i, j), 1e-15 * (1.0 + std::abs(by_autodiff(i, j)))) << i << ", " << j;
 }
 
 } // namespace test_stiff_certify

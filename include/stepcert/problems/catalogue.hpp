@@ -12,4 +12,5 @@
 #include "stepcert/problems/linear_system.hpp"
 #include "stepcert/problems/prothero_robinson.hpp"
 #include "stepcert/problems/small_satellite.hpp"
+#include "stepcert/problems/stiff_reactor.hpp"
 #include "stepcert/problems/suspension_rig.hpp"
