@@ -37,7 +37,6 @@ bool all_finite_entries(const boost::numeric::ublas::vector<U>& v) {
     return true;
 }
 
-
 /// odeint's rosenbrock4 steps boost::numeric::ublas::vector states; the user's right-hand side
 /// takes the run's state type S. Copies in and out only when the two differ.
 template <class Rhs, class S, class Jacobian, class TimeDerivative, class T>
@@ -52,6 +51,7 @@ struct rosenbrock_system {
     const TimeDerivative* time_derivative;
     S y_scratch, f_scratch;
     std::string_view method;
+    vector plus{}, minus{}, f_plus{}, f_minus{};  // differencing scratch, sized on first use
 
     template <class V>
     static std::string text(const V& v) {
@@ -83,15 +83,20 @@ struct rosenbrock_system {
         using std::abs;
         using std::cbrt;
         const U root3_eps = cbrt(std::numeric_limits<U>::epsilon());
+        if (f_plus.size() != n) {
+            f_plus.resize(n, false);
+            f_minus.resize(n, false);
+        }
         if constexpr (std::is_same_v<Jacobian, jacobian_by_differences>) {
-            vector plus = x, minus = x, fp(n), fm(n);
+            plus = x;
+            minus = x;
             for (std::size_t j = 0; j < n; ++j) {
                 const U delta = root3_eps * std::max(U(1), U(abs(x[j])));
                 plus[j] = x[j] + delta;
                 minus[j] = x[j] - delta;
-                f(plus, fp, t);
-                f(minus, fm, t);
-                for (std::size_t i = 0; i < n; ++i) J(i, j) = (fp[i] - fm[i]) / (plus[j] - minus[j]);
+                f(plus, f_plus, t);
+                f(minus, f_minus, t);
+                for (std::size_t i = 0; i < n; ++i) J(i, j) = (f_plus[i] - f_minus[i]) / (plus[j] - minus[j]);
                 plus[j] = x[j];
                 minus[j] = x[j];
             }
@@ -120,10 +125,9 @@ struct rosenbrock_system {
         if constexpr (std::is_same_v<TimeDerivative, time_derivative_by_differences>) {
             const U delta = root3_eps * std::max(U(1), U(abs(t)));
             const U up = t + delta, down = t - delta;
-            vector fp(n), fm(n);
-            f(x, fp, up);
-            f(x, fm, down);
-            for (std::size_t i = 0; i < n; ++i) dfdt[i] = (fp[i] - fm[i]) / (up - down);
+            f(x, f_plus, up);
+            f(x, f_minus, down);
+            for (std::size_t i = 0; i < n; ++i) dfdt[i] = (f_plus[i] - f_minus[i]) / (up - down);
         } else {
             to_state(x, y_scratch);
             (*time_derivative)(std::as_const(y_scratch), static_cast<T>(t), f_scratch);
