@@ -18,15 +18,9 @@
 
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/state.hpp"
+#include "stepcert/methods/derivative_sources.hpp"
 
 namespace stepcert {
-
-/// The Jacobian ∂f/∂y by central differences of the right-hand side (2n evaluations per step),
-/// step delta_j = eps^(1/3) max(1, |y_j|) (common practice, no source).
-struct jacobian_by_differences {};
-/// ∂f/∂t by a central difference in t (2 evaluations per step), step eps^(1/3) max(1, |t|);
-/// exactly zero for a right-hand side that does not depend on t.
-struct time_derivative_by_differences {};
 
 namespace detail {
 

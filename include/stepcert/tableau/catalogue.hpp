@@ -18,6 +18,8 @@
 //   Fehlberg 7(8), E. Fehlberg, NASA TR R-287 (1968) — from memory (as in Boost.Odeint's
 //     runge_kutta_fehlberg78);
 //   backward Euler and the implicit midpoint rule — common practice, no source;
+//   the L-stable SDIRK method of order 4 with an embedded method of order 3 (five stages,
+//     gamma = 1/4), E. Hairer, G. Wanner, Solving ODEs II, §IV.6, Table 6.5 — from memory;
 //   Gauss–Legendre with 2 and 3 stages (J. C. Butcher, Math. Comp. 18 (1964) 50–64) and Radau IIA
 //     with 3 stages (B. L. Ehle 1969), coefficients as tabulated in E. Hairer, G. Wanner, Solving
 //     ODEs II, §IV.5, Tables 5.1, 5.2 and 5.6 — from memory. Their coefficients involve sqrt(3),
@@ -154,6 +156,20 @@ tableau<T> backward_euler() {
 template <class T>
 tableau<T> implicit_midpoint() {
     return tableau_from_text<T>("implicit midpoint", 2, {{"1/2"}}, {"1"}, {"1/2"});
+}
+
+/// Five-stage singly diagonally implicit method of order 4, L-stable and stiffly accurate
+/// (b is the last row of A), with embedded weights of order 3. Exact in rationals.
+template <class T>
+tableau<T> sdirk4() {
+    return tableau_from_text<T>("SDIRK 4(3)", 4,
+                                {{"1/4"},
+                                 {"1/2", "1/4"},
+                                 {"17/50", "-1/25", "1/4"},
+                                 {"371/1360", "-137/2720", "15/544", "1/4"},
+                                 {"25/24", "-49/48", "125/16", "-85/12", "1/4"}},
+                                {"25/24", "-49/48", "125/16", "-85/12", "1/4"}, {"1/4", "3/4", "11/20", "1/2", "1"},
+                                {"59/48", "-17/96", "225/32", "-85/12", "0"}, 3);
 }
 
 namespace detail {

@@ -25,7 +25,7 @@ void require_explicit_tableau(const tableau<C>& tab, std::string_view who, bool 
     what += tab.name;
     what += "' ";
     if (!tab.is_explicit())
-        throw unsupported_operation(what + "is implicit (a_ij != 0 for some j >= i); only explicit tableaus can be stepped here.");
+        throw unsupported_operation(what + "is implicit (a_ij != 0 for some j >= i); step it with implicit_tableau_method (implicit_tableau_method.hpp).");
     if (needs_embedded && !tab.has_embedded())
         throw unsupported_operation(what + "has no embedded weights, so it gives no error estimate to control the step "
                                            "with; add b_embedded, or use it with a fixed step (tableau_method).");
