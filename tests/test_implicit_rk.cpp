@@ -20,8 +20,11 @@
 #include "stepcert/core/error.hpp"
 #include "stepcert/core/problem.hpp"
 #include "stepcert/methods/adaptive_implicit_tableau_method.hpp"
+#include "stepcert/methods/dormand_prince54.hpp"
 #include "stepcert/methods/implicit_tableau_method.hpp"
 #include "stepcert/problems/prothero_robinson.hpp"
+#include "stepcert/report/json.hpp"
+#include "stepcert/report/study_table.hpp"
 #include "stepcert/run/run.hpp"
 #include "stepcert/study/order_study.hpp"
 #include "stepcert/tableau/catalogue.hpp"
@@ -181,3 +184,163 @@ TEST(ImplicitOrders, SixthOrderGaussAndRadauInFiftyDigits) {
 }
 
 } // namespace test_implicit_rk
+
+namespace test_implicit_rk_stiff {
+namespace tableaus = stepcert::tableaus;
+using rational = boost::multiprecision::cpp_rational;
+
+TEST(ImplicitStiff, FarOutsideExplicitStability) {
+    // λ = −1e6, h = 0.05: |λh| = 5e4; an explicit method needs |λh| below about 2.8 (RK4's real
+    // stability interval, reference-values.md §6). The L-stable methods follow sin t.
+    const auto p = stepcert::problems::prothero_robinson(-1e6, 1.0);
+    for (const auto& m : {stepcert::implicit_tableau_method_for(p, tableaus::radau_iia3<double>())}) {
+        const auto run = stepcert::run_uniform(p, m, 20);
+        EXPECT_LT(std::abs(run.final_state()[0] - std::sin(1.0)), 1e-8) << m.name();
+    }
+    const auto sd = stepcert::run_uniform(p, stepcert::implicit_tableau_method_for(p, tableaus::sdirk4<rational>()), 20);
+    // Stage order 1: the stiff error is of order h/|λ| (measured 1.7e-8; see the next test).
+    EXPECT_LT(std::abs(sd.final_state()[0] - std::sin(1.0)), 5e-8);
+    // A given Jacobian costs no evaluations: SDIRK's five stages on a linear problem converge in
+    // two Newton iterations each (the second confirms the first), so 10 evaluations per step.
+    EXPECT_EQ(sd.stats.evaluations, 20u * 10u);
+}
+
+TEST(ImplicitStiff, DifferencedJacobianIsCountedAndGivesTheSameSolution) {
+    const auto p = stepcert::problems::prothero_robinson(-50.0, 1.0);
+    const auto given = stepcert::run_uniform(p, stepcert::implicit_tableau_method_for(p, tableaus::radau_iia3<double>()), 16);
+    const auto differenced = stepcert::run_uniform(p, stepcert::implicit_tableau_method(tableaus::radau_iia3<double>()), 16);
+    EXPECT_NEAR(given.final_state()[0], differenced.final_state()[0], 1e-13);
+    // 2n = 2 evaluations a step for the differenced Jacobian, on top of the same Newton work.
+    EXPECT_EQ(differenced.stats.evaluations, given.stats.evaluations + 16u * 2u);
+}
+
+TEST(ImplicitStiff, OrderReductionOnProtheroRobinson) {
+    // Where h|λ| is small the classical order p shows; where h|λ| is large the error of these
+    // stiffly accurate methods falls only as h^q (q the stage order) with a constant of order
+    // 1/|λ| (A. Prothero, A. Robinson, Math. Comp. 28 (1974) 145–162; Hairer & Wanner II, §IV.15
+    // — both from memory; the figures below are measured).
+    auto fitted = [](double lambda, const auto& tab, stepcert::step_ladder ladder) {
+        const auto p = stepcert::problems::prothero_robinson(lambda, 2.0);
+        const auto r = stepcert::order_study(p, stepcert::implicit_tableau_method_for(p, tab), ladder);
+        EXPECT_TRUE(r.fitted()) << stepcert::study_table(r);
+        std::printf("[ figures ] Prothero-Robinson lambda = %g, %s: fitted %.3f [%.3f, %.3f], error at the coarsest level %.3g\n",
+                    lambda, tab.name.c_str(), r.fit.order, r.fit.lower, r.fit.upper, r.levels.front().error_grid);
+        return r;
+    };
+    const auto radau = tableaus::radau_iia3<double>();
+    const auto sdirk = tableaus::sdirk4<rational>();
+    const auto radau_mild = fitted(-1.0, radau, {8, 2.0, 6});
+    EXPECT_NEAR(radau_mild.fit.order, 5.0, 0.25);
+    EXPECT_FALSE(radau_mild.order_reduction);
+    EXPECT_NEAR(fitted(-1.0, sdirk, {8, 2.0, 7}).fit.order, 4.0, 0.25);
+    fitted(-1e4, radau, {8, 2.0, 6});
+    fitted(-1e4, sdirk, {8, 2.0, 7});
+    fitted(-1e6, radau, {8, 2.0, 6});
+    fitted(-1e6, sdirk, {8, 2.0, 7});
+    const auto radau_stiff = fitted(-1e8, radau, {8, 2.0, 4});
+    EXPECT_NEAR(radau_stiff.fit.order, 3.0, 0.25);
+    const auto sdirk_stiff = fitted(-1e8, sdirk, {8, 2.0, 7});
+    EXPECT_NEAR(sdirk_stiff.fit.order, 1.0, 0.25);
+    // The verdict names order reduction, with the stage order, instead of a faulty method.
+    for (const auto* r : {&radau_stiff, &sdirk_stiff}) {
+        EXPECT_TRUE(r->order_reduction) << r->verdict_text;
+        EXPECT_NE(r->verdict_text.find("order reduction"), std::string::npos) << r->verdict_text;
+        EXPECT_NE(r->verdict_text.find("stage order " + std::to_string(r->stage_order)), std::string::npos) << r->verdict_text;
+    }
+    EXPECT_EQ(radau_stiff.stage_order, 3);
+    EXPECT_EQ(sdirk_stiff.stage_order, 1);
+    // Carried by the table and the JSON document, and read back.
+    EXPECT_NE(stepcert::study_table(radau_stiff).find("declared order 5, stage order 3"), std::string::npos);
+    const auto back = stepcert::study_from_json(stepcert::study_to_json(radau_stiff));
+    EXPECT_TRUE(back.order_reduction);
+    EXPECT_EQ(back.stage_order, 3);
+}
+
+TEST(ImplicitFailures, SingularIterationMatrixIsNamed) {
+    // y' = 40 y with backward Euler and h = 1/40: I − hJ = 0.
+    const auto p = stepcert::make_problem(
+                       "growth", [](const std::array<double, 1>& y, std::array<double, 1>& f, double) { f[0] = 40.0 * y[0]; },
+                       std::array<double, 1>{1.0}, 0.0, 0.25)
+                       .with_jacobian([](const auto&, double, auto& J) { J(0, 0) = 40.0; });
+    try {
+        (void)stepcert::run_uniform(p, stepcert::implicit_tableau_method_for(p, tableaus::backward_euler<double>()), 10);
+        ADD_FAILURE() << "no error";
+    } catch (const stepcert::method_failure& e) {
+        const std::string what = e.what();
+        EXPECT_NE(what.find("singular"), std::string::npos) << what;
+        EXPECT_NE(what.find("t = 0"), std::string::npos) << what;
+        EXPECT_NE(what.find("h = 0.025"), std::string::npos) << what;
+    }
+}
+
+TEST(ImplicitFailures, NoSolutionOfTheStageEquationIsANewtonFailure) {
+    // y' = y², y(0) = 1, one backward Euler step of h = 0.9: Y = 1 + 0.9 Y² has no real root
+    // (discriminant 1 − 3.6 < 0), so no iteration can converge (derived).
+    const auto p = stepcert::make_problem(
+        "runaway", [](const std::array<double, 1>& y, std::array<double, 1>& f, double) { f[0] = y[0] * y[0]; },
+        std::array<double, 1>{1.0}, 0.0, 0.9);
+    try {
+        (void)stepcert::run_uniform(p, stepcert::implicit_tableau_method(tableaus::backward_euler<double>()), 1);
+        ADD_FAILURE() << "no error";
+    } catch (const stepcert::method_failure& e) {
+        const std::string what = e.what();
+        EXPECT_NE(what.find("Newton"), std::string::npos) << what;
+        EXPECT_NE(what.find("smaller h"), std::string::npos) << what;
+    }
+    // With 100 steps every stage equation has its root near the previous state.
+    const auto fine = stepcert::run_uniform(
+        stepcert::make_problem(
+            "runaway", [](const std::array<double, 1>& y, std::array<double, 1>& f, double) { f[0] = y[0] * y[0]; },
+            std::array<double, 1>{1.0}, 0.0, 0.5),
+        stepcert::implicit_tableau_method(tableaus::radau_iia3<double>()), 100);
+    EXPECT_NEAR(fine.final_state()[0], 2.0, 1e-10);  // y = 1/(1 − t)
+}
+
+TEST(ImplicitFailures, ModelFailureIsLocatedByTheRunDriver) {
+    // The right-hand side is NaN from t = 0.7 on: the site, not a Newton failure, is reported.
+    const auto p = stepcert::make_problem(
+        "failing table",
+        [](const std::array<double, 1>& y, std::array<double, 1>& f, double t) {
+            f[0] = t > 0.7 ? std::numeric_limits<double>::quiet_NaN() : -y[0];
+        },
+        std::array<double, 1>{1.0}, 0.0, 1.0);
+    EXPECT_THROW((void)stepcert::run_uniform(p, stepcert::implicit_tableau_method(tableaus::sdirk4<rational>()), 16),
+                 stepcert::non_finite_value);
+}
+
+TEST(ImplicitFailures, ExplicitTableauIsSentToTheExplicitStepper) {
+    EXPECT_THROW((void)stepcert::implicit_tableau_method(tableaus::classic_rk4<rational>()), stepcert::unsupported_operation);
+    EXPECT_THROW((void)stepcert::adaptive_implicit_tableau_method(tableaus::radau_iia3<double>()), stepcert::unsupported_operation);
+}
+
+TEST(ImplicitAdaptive, Sdirk43OnAStiffProblem) {
+    // λ = −1e4 on [0, 2]: the adaptive SDIRK 4(3) against Boost.Odeint's Dormand–Prince 5(4)
+    // controller (explicit: its steps are limited by stability, |λh| < about 3.3).
+    const auto p = stepcert::problems::prothero_robinson(-1e4, 2.0);
+    const auto m = stepcert::adaptive_implicit_tableau_method_for(p, tableaus::sdirk4<rational>());
+    for (const double tol : {1e-6, 1e-8}) {
+        const auto run = stepcert::run_adaptive(p, m, stepcert::controller_tolerance{tol, tol});
+        const auto dp = stepcert::run_adaptive(p, stepcert::dormand_prince54_adaptive, stepcert::controller_tolerance{tol, tol});
+        const double err = std::abs(run.final_state()[0] - std::sin(2.0));
+        std::printf("[ figures ] adaptive SDIRK 4(3), Prothero-Robinson lambda = -1e4, tol %g: %zu steps, %zu rejected, %zu evaluations, "
+                    "error %.3g; Dormand-Prince 5(4): %zu steps\n",
+                    tol, run.stats.steps, run.stats.rejected, run.stats.evaluations, err, dp.stats.steps);
+        EXPECT_LT(run.stats.steps * 2, dp.stats.steps);  // measured: 58 vs 6,050 at 1e-6; 1,851 vs 6,445 at 1e-8
+        EXPECT_LT(err, 10 * tol);
+    }
+}
+
+TEST(ImplicitAdaptive, OrderAgainstTolerance) {
+    // The error at t1 falls as tol^(p/(p+1))-like in the mean step; the study fits the declared
+    // order 4 against the mean step (as for the explicit pairs).
+    stepcert::study_options final_only;
+    final_only.adaptive_grid_points = 1;
+    const auto r = stepcert::order_study(test_implicit_rk::exchanger,
+                                         stepcert::adaptive_implicit_tableau_method(tableaus::sdirk4<rational>()),
+                                         stepcert::tolerance_ladder{1e-5, 10.0, 6}, final_only);
+    std::printf("[ figures ] adaptive SDIRK 4(3) on the t-dependent exchanger: fitted %.3f [%.3f, %.3f]\n", r.fit.order, r.fit.lower,
+                r.fit.upper);
+    EXPECT_TRUE(stepcert::testing::converges_at_declared_order(r, 0.3)) << stepcert::study_table(r);
+}
+
+} // namespace test_implicit_rk_stiff

@@ -86,6 +86,7 @@ struct embedded_implicit_rk_method : detail::adaptive_method_identity<embedded_i
     newton_settings newton{};
 
     std::string_view name() const { return label_text; }
+    int stage_order() const { return stepcert::stage_order(tab, detail::stage_order_tolerance<C>()); }
     static constexpr std::string_view derivatives_source() { return implicit_rk_method<C, Jacobian>::derivatives_source(); }
 
     template <class Rhs, class S, class T, class Obs>

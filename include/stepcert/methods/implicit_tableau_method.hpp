@@ -8,6 +8,7 @@
 // evaluations per step; every evaluation is counted by the run driver.
 // A step whose iteration fails is refused with method_failure naming t, h and what was seen.
 #include <cstddef>
+#include <limits>
 #include <string>
 #include <string_view>
 #include <utility>
@@ -19,9 +20,21 @@
 #include "stepcert/methods/detail/implicit_stages.hpp"
 #include "stepcert/methods/detail/uniform_loop.hpp"
 #include "stepcert/methods/method.hpp"
+#include "stepcert/tableau/stage_order.hpp"
 #include "stepcert/tableau/tableau.hpp"
 
 namespace stepcert {
+
+namespace detail {
+/// Exact tableaus (rationals) decide C(q) exactly; floating ones within 64 eps.
+template <class C>
+C stage_order_tolerance() {
+    if constexpr (std::numeric_limits<C>::is_exact)
+        return C(0);
+    else
+        return C(64) * std::numeric_limits<C>::epsilon();
+}
+} // namespace detail
 
 template <class C, class Jacobian = jacobian_by_differences>
 struct implicit_rk_method {
@@ -32,6 +45,9 @@ struct implicit_rk_method {
 
     std::string_view name() const { return tab.name; }
     int order() const { return tab.claimed_order; }
+    /// The stage order q of the tableau (C(q), stage_order.hpp): on stiff problems the order an
+    /// order study sees can fall towards it; the study says so in its verdict.
+    int stage_order() const { return stepcert::stage_order(tab, detail::stage_order_tolerance<C>()); }
 
     /// How ∂f/∂y is formed, in words (for reports).
     static constexpr std::string_view derivatives_source() {

@@ -30,6 +30,8 @@ inline nlohmann::json study_to_json(const order_study_result& r) {
     j["method"] = r.method;
     j["declared_order"] = r.declared_order;
     j["variable_order"] = r.variable_order;
+    j["stage_order"] = r.stage_order;
+    j["order_reduction"] = r.order_reduction;
     j["control"] = std::string(detail::step_control_text(r.control));
     j["ladder"] = r.ladder;
     j["ratio"] = json_number(r.ratio);
@@ -87,6 +89,9 @@ inline order_study_result study_from_json(const nlohmann::json& j) {
         r.method = j.at("method").get<std::string>();
         r.declared_order = j.at("declared_order").get<int>();
         r.variable_order = j.at("variable_order").get<bool>();
+        // Added without a version bump: documents written before them read as "not stated".
+        r.stage_order = j.contains("stage_order") ? j.at("stage_order").get<int>() : 0;
+        r.order_reduction = j.contains("order_reduction") ? j.at("order_reduction").get<bool>() : false;
         const auto control = j.at("control").get<std::string>();
         if (control != "fixed" && control != "adaptive")
             throw invalid_input("stepcert: study JSON field 'control' must be \"fixed\" or \"adaptive\".");

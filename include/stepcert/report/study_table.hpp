@@ -48,6 +48,7 @@ inline void write_study_table(std::ostream& os, const order_study_result& r) {
         os << "variable order";
     else
         os << "declared order " << r.declared_order;
+    if (r.stage_order > 0) os << ", stage order " << r.stage_order;
     os << ", " << detail::step_control_text(r.control) << " step)\n";
     os << "levels: " << r.ladder << "; output grid: " << r.grid_points << (r.grid_points == 1 ? " time (the final one)" : " times") << "; working precision: " << r.working_digits
        << " digits\n";

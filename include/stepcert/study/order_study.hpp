@@ -21,6 +21,7 @@
 // and the reference on the grid) leave no correct digit and count as pre-asymptotic.
 #include <algorithm>
 #include <cmath>
+#include <concepts>
 #include <cstddef>
 #include <limits>
 #include <numeric>
@@ -137,6 +138,7 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
     res.method = std::string(m.name());
     res.declared_order = m.order();
     res.variable_order = has_variable_order_v<M>;
+    if constexpr (requires { { m.stage_order() } -> std::convertible_to<int>; }) res.stage_order = m.stage_order();
     res.control = M::control;
     res.ladder = ladder.describe();
     res.ratio = ladder.ratio;
@@ -396,6 +398,17 @@ order_study_result order_study_impl(const P& p, const M& m, const Ladder& ladder
         res.verdict_text = range.verdict + (differences ? " (differences of levels " + std::to_string(res.range_first) + ".." +
                                                               std::to_string(b) + ")"
                                                         : " (levels " + std::to_string(a) + ".." + std::to_string(b) + ")");
+        // Below the declared order, but not below the stage order: order reduction on a stiff
+        // problem (the stage order bounds the order where h|lambda| is large), not a faulty method.
+        const int q = res.stage_order;
+        if (q > 0 && q < res.declared_order && res.fit.upper < res.declared_order - 0.2 && res.fit.order >= q - 0.25) {
+            res.order_reduction = true;
+            res.verdict_text += "; the observed order " + detail::short_number(res.fit.order, "%.2f") + " is below the declared " +
+                                std::to_string(res.declared_order) + " but not below the method's stage order " + std::to_string(q) +
+                                ": consistent with order reduction on a stiff problem (where h|lambda| is large the stage order "
+                                "limits the order; Prothero and Robinson 1974), not a faulty method. The declared order shows "
+                                "where h|lambda| is small: take smaller steps, or a less stiff problem, to see it.";
+        }
     } else {
         res.verdict = study_verdict::no_asymptotic_range;
         res.verdict_text = range.verdict;

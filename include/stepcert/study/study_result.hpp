@@ -98,6 +98,11 @@ struct order_study_result {
     std::string method;
     int declared_order = 0;
     bool variable_order = false;  ///< the method has no fixed order (e.g. Bulirsch–Stoer); declared_order is 0
+    /// Stage order q of the method when it states one (implicit tableau methods), else 0.
+    int stage_order = 0;
+    /// The fitted order lies below the declared one but not below the stage order: what order
+    /// reduction on a stiff problem looks like, stated in verdict_text.
+    bool order_reduction = false;
     step_control control = step_control::fixed;
     std::string ladder;  ///< how the levels were built
     double ratio = std::numeric_limits<double>::quiet_NaN();

@@ -165,6 +165,12 @@ public:
             }
         }
         for (std::size_t k = 0; k < n_; ++k) y_new[k] = y[k] + sum[static_cast<Eigen::Index>(k)];
+        if (err != nullptr && !e_.empty() && diagonal_ && last_diagonal_ != U(0)) {
+            // The embedded difference of an L-stable pair is not damped on stiff components: it is
+            // filtered through (I - h gamma J)^(-1), the LU already at hand (L. F. Shampine, SIAM J. Sci.
+            // Stat. Comput. 1 (1980) 103–118; Hairer & Wanner II, §IV.8 — from memory).
+            err_sum = diagonal_lu(hu, last_diagonal_).solve(err_sum);
+        }
         if (err != nullptr && !e_.empty())
             for (std::size_t k = 0; k < n_; ++k) (*err)[k] = err_sum[static_cast<Eigen::Index>(k)];
         return rec;
@@ -229,21 +235,45 @@ private:
                                     "; write the n x n entries J(i, j) = df_i/dy_j only.");
         }
         jacobian_finite_ = J_.allFinite();
+        if constexpr (!std::is_same_v<Jacobian, jacobian_by_differences>) {
+            if (!jacobian_finite_) {
+                for (Eigen::Index i = 0; i < N; ++i)
+                    for (Eigen::Index j = 0; j < N; ++j)
+                        if (!(boost::math::isfinite)(J_(i, j))) {
+                            std::ostringstream os;
+                            os << "stepcert: implicit method '" << label_ << "': the Jacobian given with the problem has a NaN or "
+                               << "infinite entry (" << i << ", " << j << ") at t = " << static_cast<double>(t)
+                               << "; check it there (it must be df_" << i << "/dy_" << j << ").";
+                            throw non_finite_value(os.str());
+                        }
+            }
+        }
         lu_h_ = U(0);  // the factorizations belong to the old Jacobian
         lu_diagonal_.clear();
+        diagonal_singular_.clear();
     }
 
     void set_weights(const S& y, const newton_scale& scale) {
         using std::abs;
-        U y_max = U(0);
-        for (std::size_t i = 0; i < n_; ++i) y_max = std::max(y_max, U(abs(y[i])));
         w_.resize(static_cast<Eigen::Index>(n_));
-        w_round_.resize(static_cast<Eigen::Index>(n_));
+        y_abs_.resize(static_cast<Eigen::Index>(n_));
         for (std::size_t i = 0; i < n_; ++i) {
-            const U rel = abs(y[i]) + U(1e-6) * y_max + (std::numeric_limits<U>::min)();
-            w_round_[static_cast<Eigen::Index>(i)] = rel;
-            w_[static_cast<Eigen::Index>(i)] = scale.atol < 0 ? rel : U(scale.atol) + U(scale.rtol) * abs(y[i]);
+            const auto k = static_cast<Eigen::Index>(i);
+            y_abs_[k] = abs(y[i]);
+            w_[k] = scale.atol < 0 ? U(0) : U(scale.atol) + U(scale.rtol) * y_abs_[k];
         }
+    }
+
+    /// Weights for the round-off test and the fixed-step tolerance: relative to the larger of
+    /// |y_i| and the stage increments' |z_i| (a state that starts at zero has only the latter),
+    /// plus 1e-6 of the largest of them all.
+    void round_off_weights(const vector& Z) {
+        using std::abs;
+        const auto N = static_cast<Eigen::Index>(n_);
+        w_round_ = y_abs_;
+        for (Eigen::Index k = 0; k < Z.size(); ++k) w_round_[k % N] = std::max(w_round_[k % N], U(y_abs_[k % N] + abs(Z[k])));
+        const U floor = U(1e-6) * w_round_.maxCoeff() + (std::numeric_limits<U>::min)();
+        for (Eigen::Index k = 0; k < N; ++k) w_round_[k] += floor;
     }
 
     /// Weighted max-norm of a stacked vector of stage increments.
@@ -305,7 +335,8 @@ private:
     void solve_all_stages(Rhs& rhs, const S& y, const T& t, const T& h, const newton_scale& scale, newton_record<U>& rec) {
         const auto N = static_cast<Eigen::Index>(n_), SN = static_cast<Eigen::Index>(s_ * n_);
         const U hu = static_cast<U>(h);
-        if (!jacobian_finite_) return (void)(rec.end = newton_end::singular);
+        // A differenced Jacobian that is not finite: f is not finite near y (the driver locates it).
+        if (!jacobian_finite_) return (void)(rec.end = newton_end::non_finite_start);
         if (lu_h_ != hu) {
             matrix M = matrix::Identity(SN, SN);
             for (std::size_t i = 0; i < s_; ++i)
@@ -313,7 +344,9 @@ private:
                     if (a_[i][j] != U(0)) M.block(block(i), block(j), N, N) -= (hu * a_[i][j]) * J_;
             lu_full_.compute(M);
             lu_h_ = hu;
+            full_singular_ = nearly_singular(lu_full_, norm1(M));
         }
+        if (full_singular_) return (void)(rec.end = newton_end::singular);
         Z_ = vector::Zero(SN);
         F_.resize(SN);
         vector G(SN), dZ(SN);
@@ -333,9 +366,25 @@ private:
             }
             dZ = lu_full_.solve(G);
             Z_ += dZ;
-            if (judge(norm(dZ, w_), norm(dZ, w_round_), previous, k, scale, rec)) return;
+            round_off_weights(Z_);
+            const U round_inc = norm(dZ, w_round_);
+            if (judge(scale.atol < 0 ? round_inc : norm(dZ, w_), round_inc, previous, k, scale, rec)) return;
         }
     }
+
+    /// Singular to working precision: M = I - h (A x J) is the identity plus a correction, so it
+    /// is singular when |M^(-1)|_1 = 1 / (rcond |M|_1) exceeds 1 / (100 eps), or rcond itself is
+    /// below 100 eps (a 1 x 1 matrix has rcond 1 however small it is).
+    static bool nearly_singular(const Eigen::PartialPivLU<matrix>& lu, const U& norm1) {
+        const U r = lu.rcond(), limit = U(100) * std::numeric_limits<U>::epsilon();
+        return !(r > limit) || !(r * norm1 > limit);
+    }
+    bool diagonal_is_singular(const U& aii) const {
+        for (std::size_t k = 0; k < lu_diagonal_.size(); ++k)
+            if (lu_diagonal_[k].first == aii) return diagonal_singular_[k];
+        return false;
+    }
+    static U norm1(const matrix& M) { return M.cwiseAbs().colwise().sum().maxCoeff(); }
 
     const Eigen::PartialPivLU<matrix>& diagonal_lu(const U& hu, const U& aii) {
         for (auto& [key, lu] : lu_diagonal_)
@@ -343,6 +392,7 @@ private:
         const auto N = static_cast<Eigen::Index>(n_);
         matrix M = matrix::Identity(N, N) - (hu * aii) * J_;
         lu_diagonal_.emplace_back(aii, Eigen::PartialPivLU<matrix>(M));
+        diagonal_singular_.emplace_back(nearly_singular(lu_diagonal_.back().second, norm1(M)));
         return lu_diagonal_.back().second;
     }
 
@@ -353,6 +403,7 @@ private:
         F_.resize(static_cast<Eigen::Index>(s_ * n_));
         if (lu_h_ != hu) {
             lu_diagonal_.clear();
+            diagonal_singular_.clear();
             lu_h_ = hu;
         }
         vector explicit_part(N), z(N), g(N), dz(N);
@@ -366,8 +417,10 @@ private:
                 if (!evaluate_stage(rhs, y, z, t, h, i)) return (void)(rec.end = newton_end::non_finite_start);
                 continue;
             }
-            if (!jacobian_finite_) return (void)(rec.end = newton_end::singular);
+            if (!jacobian_finite_) return (void)(rec.end = newton_end::non_finite_start);
             const auto& lu = diagonal_lu(hu, a_[i][i]);
+            if (diagonal_is_singular(a_[i][i])) return (void)(rec.end = newton_end::singular);
+            last_diagonal_ = a_[i][i];
             U previous = U(0);
             for (int k = 0;; ++k) {
                 if (!evaluate_stage(rhs, y, z, t, h, i)) {
@@ -378,7 +431,9 @@ private:
                 g = -z + explicit_part + (hu * a_[i][i]) * F_.segment(block(i), N);
                 dz = lu.solve(g);
                 z += dz;
-                if (judge(norm(dz, w_), norm(dz, w_round_), previous, k, scale, rec)) break;
+                round_off_weights(z);
+                const U round_inc = norm(dz, w_round_);
+                if (judge(scale.atol < 0 ? round_inc : norm(dz, w_), round_inc, previous, k, scale, rec)) break;
             }
             if (rec.end != newton_end::converged) return;
             // f at the converged stage, from the stage equation (no evaluation, no Newton error times J).
@@ -397,8 +452,11 @@ private:
     bool jacobian_finite_ = true;
     U lu_h_ = U(0);
     Eigen::PartialPivLU<matrix> lu_full_;
+    bool full_singular_ = false;
+    U last_diagonal_ = U(0);
     std::vector<std::pair<U, Eigen::PartialPivLU<matrix>>> lu_diagonal_;
-    vector Z_, F_, w_, w_round_;
+    std::vector<bool> diagonal_singular_;
+    vector Z_, F_, w_, w_round_, y_abs_;
     S y_stage_, f_stage_;
 };
 
