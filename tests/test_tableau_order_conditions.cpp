@@ -76,7 +76,7 @@ std::vector<stepcert::tableau<T>> catalogue() {
     return {tb::explicit_euler<T>(), tb::explicit_midpoint<T>(), tb::heun2<T>(),           tb::ralston2<T>(),
             tb::kutta3<T>(),         tb::ssp_rk3<T>(),           tb::classic_rk4<T>(),     tb::three_eighths_rule<T>(),
             tb::bogacki_shampine32<T>(), tb::fehlberg45<T>(),    tb::cash_karp54<T>(),     tb::dormand_prince54<T>(),
-            tb::fehlberg78<T>(),     tb::backward_euler<T>(),    tb::implicit_midpoint<T>()};
+            tb::fehlberg78<T>(),     tb::backward_euler<T>(),    tb::implicit_midpoint<T>(), tb::sdirk4<T>()};
 }
 
 template <class T>

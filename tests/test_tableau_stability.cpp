@@ -120,6 +120,12 @@ TEST(StabilityIntervals, AStability) {
     }
     // The same in double: the stability function is computed in the tableau's own type.
     EXPECT_TRUE(stepcert::stability_summary_of(stepcert::stability_function_of(tb::implicit_midpoint<double>())).a_stable);
+    // SDIRK 4(3) is L-stable: A-stable, and R(z) -> 0 as z -> infinity, i.e. the numerator's degree
+    // is below the denominator's (Hairer & Wanner II, §IV.6, from memory; decided here exactly).
+    const auto sdirk = stepcert::stability_function_of(tb::sdirk4<cpp_rational>());
+    const auto s = stepcert::stability_summary_of(sdirk);
+    EXPECT_TRUE(s.a_stable) << s.a_stability_note;
+    EXPECT_LT(sdirk.numerator.degree(), sdirk.denominator.degree());
 }
 
 TEST(ImplicitCatalogue, GaussAndRadauOrdersAndAStability) {
